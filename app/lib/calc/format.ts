@@ -32,6 +32,14 @@ const MINUS = "-";
 export interface FormatOptions {
   /** Significant figures (1–15). Default 3. */
   digits?: number;
+  /** Drop trailing zeros ("1 MHz" rather than "1.00 MHz"): for exact figures such as allowed ranges. */
+  trimZeros?: boolean;
+}
+
+function trim(numberText: string): string {
+  const [mantissa, exponent] = numberText.split("e");
+  const trimmed = mantissa!.includes(".") ? mantissa!.replace(/0+$/, "").replace(/\.$/, "") : mantissa!;
+  return exponent === undefined ? trimmed : `${trimmed}e${exponent}`;
 }
 
 function clampDigits(digits: number | undefined): number {
@@ -63,6 +71,7 @@ function plain(magnitude: number, digits: number): string {
  */
 export function formatQuantity(value: number, unit: string, opts: FormatOptions = {}): string {
   const digits = clampDigits(opts.digits);
+  const tidy = opts.trimZeros ? trim : (text: string) => text;
   if (typeof value !== "number" || Number.isNaN(value)) return "—";
   if (!Number.isFinite(value)) return withUnit(value > 0 ? "∞" : `${MINUS}∞`, "", unit);
   if (value === 0) return withUnit("0", "", unit);
@@ -70,7 +79,7 @@ export function formatQuantity(value: number, unit: string, opts: FormatOptions 
   const sign = value < 0 ? MINUS : "";
   const magnitude = Math.abs(value);
 
-  if (!PREFIXABLE.has(unit)) return withUnit(sign + plain(magnitude, digits), "", unit);
+  if (!PREFIXABLE.has(unit)) return withUnit(sign + tidy(plain(magnitude, digits)), "", unit);
 
   // Round to the requested significant figures first, so 999.7 becomes "1.00 k", not "1000".
   const rounded = Number(magnitude.toPrecision(digits));
@@ -79,10 +88,10 @@ export function formatQuantity(value: number, unit: string, opts: FormatOptions 
   if (rounded / 10 ** exponent >= 1000) exponent += 3;
   if (rounded / 10 ** exponent < 1) exponent -= 3;
   const prefix = PREFIXES.find((p) => p.exponent === exponent);
-  if (!prefix) return withUnit(sign + plain(magnitude, digits), "", unit);
+  if (!prefix) return withUnit(sign + tidy(plain(magnitude, digits)), "", unit);
 
   const scaled = rounded / 10 ** exponent;
-  return withUnit(sign + scaled.toPrecision(digits), prefix.symbol, unit);
+  return withUnit(sign + tidy(scaled.toPrecision(digits)), prefix.symbol, unit);
 }
 
 /** A scalar result with its display text: the form every calculator returns numbers in. */

@@ -1,0 +1,312 @@
+/**
+ * The one way Sinewright reads a quantity an engineer typed ("48 V", "4.7 µF",
+ * "20kHz", "23°", "1.5 K/W") and turns it into a plain SI number.
+ *
+ * Units are read by a lean mathjs instance holding only the factories the engine
+ * uses (units, arithmetic, a handful of functions and the expression parser for
+ * `safe-expression.ts`). Functions that could change the instance or evaluate
+ * arbitrary text are replaced by stubs that refuse, before anything else sees it.
+ *
+ * Conventions:
+ * - A bare number takes the input's display unit: "48" for a voltage shown in V
+ *   means 48 V; "4.7" for a capacitance shown in uF means 4.7 µF.
+ * - Angles come out in degrees (radians are converted); temperatures in °C.
+ * - Dimensionless inputs accept "80 %" as 0.8.
+ */
+import {
+  absDependencies,
+  acosDependencies,
+  addDependencies,
+  asinDependencies,
+  atanDependencies,
+  ceilDependencies,
+  cosDependencies,
+  create,
+  divideDependencies,
+  eDependencies,
+  expDependencies,
+  floorDependencies,
+  log10Dependencies,
+  logDependencies,
+  maxDependencies,
+  minDependencies,
+  multiplyDependencies,
+  parseDependencies,
+  piDependencies,
+  powDependencies,
+  roundDependencies,
+  sinDependencies,
+  sqrtDependencies,
+  subtractDependencies,
+  tanDependencies,
+  toDependencies,
+  unaryMinusDependencies,
+  unaryPlusDependencies,
+  unitDependencies,
+  type MathNode,
+  type Unit,
+} from "mathjs";
+import { formatQuantity } from "./format";
+import type { Dimension } from "./types";
+
+const instance = create(
+  {
+    unitDependencies,
+    parseDependencies,
+    addDependencies,
+    subtractDependencies,
+    multiplyDependencies,
+    divideDependencies,
+    powDependencies,
+    unaryMinusDependencies,
+    unaryPlusDependencies,
+    toDependencies,
+    sqrtDependencies,
+    absDependencies,
+    sinDependencies,
+    cosDependencies,
+    tanDependencies,
+    asinDependencies,
+    acosDependencies,
+    atanDependencies,
+    expDependencies,
+    logDependencies,
+    log10Dependencies,
+    minDependencies,
+    maxDependencies,
+    roundDependencies,
+    floorDependencies,
+    ceilDependencies,
+    piDependencies,
+    eDependencies,
+  },
+  {},
+);
+
+/** The parser, kept before the namespace entry is disabled; only safe-expression.ts uses it. */
+const parseExpressionTree: (text: string) => MathNode = instance.parse.bind(instance) as (text: string) => MathNode;
+
+// Nothing may extend or re-enter the instance once it exists (defence in depth:
+// safe-expression.ts also refuses these names before evaluating anything).
+const refuse = (name: string) => () => {
+  throw new Error(`${name} is not available in Sinewright expressions`);
+};
+instance.import(
+  Object.fromEntries(
+    ["import", "createUnit", "evaluate", "parse", "compile", "simplify", "derivative", "resolve", "config", "reviver", "replacer"].map(
+      (name) => [name, refuse(name)],
+    ),
+  ),
+  { override: true },
+);
+
+/** The restricted mathjs instance and its parser, for the engine's own modules. */
+export const math = instance;
+export { parseExpressionTree };
+export type { Unit as MathUnit };
+
+/** The SI unit each dimension is stored in, as mathjs spells it ("" = pure number). */
+export const SI_UNIT: Record<Dimension, string> = {
+  voltage: "V",
+  current: "A",
+  frequency: "Hz",
+  capacitance: "F",
+  inductance: "H",
+  resistance: "ohm",
+  power: "W",
+  energy: "J",
+  time: "s",
+  angle: "deg",
+  temperature: "degC",
+  thermalResistance: "K/W",
+  dimensionless: "",
+};
+
+/** How messages name a dimension, and an example of typing it. */
+const DIMENSION_WORDS: Record<Dimension, { noun: string; example: string }> = {
+  voltage: { noun: "a voltage", example: "48 V" },
+  current: { noun: "a current", example: "2.3 A" },
+  frequency: { noun: "a frequency", example: "20 kHz" },
+  capacitance: { noun: "a capacitance", example: "4.7 uF" },
+  inductance: { noun: "an inductance", example: "2.2 mH" },
+  resistance: { noun: "a resistance", example: "10 ohm" },
+  power: { noun: "a power", example: "1.5 kW" },
+  energy: { noun: "an energy", example: "120 uJ" },
+  time: { noun: "a time", example: "50 ns" },
+  angle: { noun: "an angle", example: "23 deg" },
+  temperature: { noun: "a temperature", example: "25 degC" },
+  thermalResistance: { noun: "a thermal resistance", example: "1.5 K/W" },
+  dimensionless: { noun: "a pure number", example: "0.8" },
+};
+
+export function dimensionNoun(dimension: Dimension): string {
+  return DIMENSION_WORDS[dimension].noun;
+}
+
+export function dimensionExample(dimension: Dimension): string {
+  return DIMENSION_WORDS[dimension].example;
+}
+
+/** One unit per dimension, built once, to compare dimensions against. */
+const REFERENCE_UNITS = Object.fromEntries(
+  (Object.entries(SI_UNIT) as [Dimension, string][])
+    .filter(([, unit]) => unit !== "")
+    .map(([dimension, unit]) => [dimension, instance.unit(unit)]),
+) as Partial<Record<Dimension, Unit>>;
+
+/** What parseQuantity needs to know about the input: a QuantityInputSpec fits. */
+export interface QuantitySpec {
+  key: string;
+  dimension: Dimension;
+  displayUnit: string;
+  min?: number;
+  max?: number;
+  minExclusive?: boolean;
+  maxExclusive?: boolean;
+  integer?: boolean;
+}
+
+export type QuantityParse = { ok: true; value: number } | { ok: false; message: string };
+
+/**
+ * Rewrites the spellings engineers type into ones mathjs reads: the micro sign
+ * and Greek mu, Ω and the ohm sign, ° and °C, Unicode minus and odd spaces.
+ */
+export function normaliseUnitText(text: string): string {
+  return text
+    .replace(/[\u00a0\u2009\u202f]/g, " ")
+    .replace(/\u2212/g, "-")
+    .replace(/[\u00b5\u03bc]/g, "u")
+    .replace(/[\u03a9\u2126]/g, "ohm")
+    .replace(/°\s*C\b/g, "degC")
+    .replace(/°\s*F\b/g, "degF")
+    .replace(/°/g, "deg")
+    .trim();
+}
+
+/** Which of our dimensions a mathjs unit has, if any. */
+export function dimensionOf(quantity: Unit | number): Dimension | undefined {
+  if (typeof quantity === "number") return "dimensionless";
+  if (quantity.units.length === 0) return "dimensionless";
+  for (const [dimension, reference] of Object.entries(REFERENCE_UNITS) as [Dimension, Unit][]) {
+    if (quantity.equalBase(reference)) return dimension;
+  }
+  return undefined;
+}
+
+/** A mathjs unit or number as our engine's plain value in `dimension`'s SI unit. */
+function toSi(quantity: Unit, dimension: Dimension): number {
+  const unit = SI_UNIT[dimension];
+  return unit === "" ? quantity.toNumber() : quantity.toNumber(unit);
+}
+
+/** How a quantity reads back in an error message ("5 V", "0.2 rad"). */
+function describe(quantity: Unit | number): string {
+  if (typeof quantity === "number") return formatQuantity(quantity, "", { digits: 6 });
+  return quantity.toString();
+}
+
+/** "between 1 Hz and 1 MHz", "at least 0 V", … in engineering notation. */
+export function describeRange(spec: QuantitySpec): string | undefined {
+  const unit = SI_UNIT[spec.dimension];
+  const show = (v: number) => formatQuantity(v, unit, { digits: 6, trimZeros: true });
+  const { min, max } = spec;
+  if (min !== undefined && max !== undefined) {
+    const lo = spec.minExclusive ? `above ${show(min)}` : show(min);
+    const hi = spec.maxExclusive ? `below ${show(max)}` : show(max);
+    if (!spec.minExclusive && !spec.maxExclusive) return `between ${lo} and ${hi}`;
+    return `${lo} and ${hi}`;
+  }
+  if (min !== undefined) return spec.minExclusive ? `greater than ${show(min)}` : `at least ${show(min)}`;
+  if (max !== undefined) return spec.maxExclusive ? `less than ${show(max)}` : `at most ${show(max)}`;
+  return undefined;
+}
+
+/**
+ * Checks a value already in SI units against the spec's range and integer rule.
+ * Returns the message for the engineer, or undefined when it is acceptable.
+ */
+export function checkRange(value: number, spec: QuantitySpec): string | undefined {
+  const unit = SI_UNIT[spec.dimension];
+  const got = Number.isNaN(value) ? "not a number" : formatQuantity(value, unit, { digits: 6, trimZeros: true });
+  const range = describeRange(spec);
+  if (!Number.isFinite(value)) {
+    return range ? `${spec.key} must be ${range}; got ${got}` : `${spec.key} must be a finite number; got ${got}`;
+  }
+  const below = spec.min !== undefined && (spec.minExclusive ? value <= spec.min : value < spec.min);
+  const above = spec.max !== undefined && (spec.maxExclusive ? value >= spec.max : value > spec.max);
+  if (below || above) return `${spec.key} must be ${range}; got ${got}`;
+  if (spec.integer && !Number.isInteger(value)) return `${spec.key} must be a whole number; got ${got}`;
+  return undefined;
+}
+
+/**
+ * Checks a mathjs value (from typed text or an expression) against the spec's
+ * dimension, converts it to SI, and checks the range. A pure number takes the
+ * spec's display unit.
+ */
+export function quantityToSpec(quantity: Unit | number, spec: QuantitySpec): QuantityParse {
+  let value: number;
+  const bare = typeof quantity === "number" || quantity.units.length === 0;
+  if (bare) {
+    const number = typeof quantity === "number" ? quantity : quantity.toNumber();
+    const converted = bareNumberToSi(number, spec);
+    if (!converted.ok) return converted;
+    value = converted.value;
+  } else {
+    if (dimensionOf(quantity) !== spec.dimension) {
+      return { ok: false, message: `${spec.key} must be ${dimensionNoun(spec.dimension)}; got ${describe(quantity)}` };
+    }
+    value = toSi(quantity, spec.dimension);
+  }
+  const problem = checkRange(value, spec);
+  return problem ? { ok: false, message: problem } : { ok: true, value: Object.is(value, -0) ? 0 : value };
+}
+
+/** A bare number in the spec's display unit ("%" counts as a hundredth). */
+function bareNumberToSi(number: number, spec: QuantitySpec): QuantityParse {
+  if (spec.dimension === "dimensionless") {
+    return { ok: true, value: spec.displayUnit === "%" ? number / 100 : number };
+  }
+  if (!Number.isFinite(number)) return { ok: true, value: number };
+  const display = normaliseUnitText(spec.displayUnit || SI_UNIT[spec.dimension]);
+  return { ok: true, value: toSi(instance.unit(number, display), spec.dimension) };
+}
+
+/**
+ * Reads what an engineer typed for one quantity input.
+ * parseQuantity("4.7 µF", cSpec) → { ok: true, value: 4.7e-6 }.
+ * Never throws: unreadable text, a wrong dimension, a non-finite value or an
+ * out-of-range value each give a message naming the input and what is expected.
+ */
+export function parseQuantity(text: string | number, spec: QuantitySpec): QuantityParse {
+  if (typeof text === "number") return quantityToSpec(text, spec);
+  const cleaned = normaliseUnitText(text);
+  const unreadable: QuantityParse = {
+    ok: false,
+    message: `${spec.key}: could not read "${text.slice(0, 60)}" as ${dimensionNoun(spec.dimension)}; type a number and a unit, e.g. ${dimensionExample(spec.dimension)}`,
+  };
+  if (cleaned === "" || cleaned.length > 100) return unreadable;
+
+  if (spec.dimension === "dimensionless") {
+    const percent = /^(.*\d\.?)\s*%$/.exec(cleaned);
+    if (percent) {
+      const number = Number(percent[1]);
+      return Number.isNaN(number) ? unreadable : quantityToSpec(number / 100, { ...spec, displayUnit: "" });
+    }
+  }
+  // mathjs reads "Infinity" and "NaN" as unit names; a plain Number() catches them first.
+  const plainNumber = /^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(cleaned) ? Number(cleaned) : undefined;
+  if (plainNumber !== undefined) return quantityToSpec(plainNumber, spec);
+  if (/^[+-]?(infinity|inf|nan)$/i.test(cleaned)) return quantityToSpec(cleaned.startsWith("-") ? -Infinity : cleaned.toLowerCase().includes("nan") ? NaN : Infinity, spec);
+
+  let quantity: Unit;
+  try {
+    quantity = instance.unit(cleaned);
+  } catch {
+    return unreadable;
+  }
+  // "V" on its own reads as a valueless unit: the engineer forgot the number.
+  if (quantity.value === null) return unreadable;
+  return quantityToSpec(quantity, spec);
+}
