@@ -65,6 +65,9 @@ export interface QuantityListInputSpec extends InputSpecBase {
   displayUnit: string;
   min?: number;
   max?: number;
+  /** As for QuantityInputSpec: makes min/max exclusive bounds for every item. */
+  minExclusive?: boolean;
+  maxExclusive?: boolean;
   minItems?: number;
   maxItems?: number;
   default?: string;
@@ -73,8 +76,19 @@ export interface QuantityListInputSpec extends InputSpecBase {
 /** A harmonic spectrum: JSON array of {n, value}, or a reference to another block's `harmonics`. */
 export interface SpectrumInputSpec extends InputSpecBase {
   kind: "spectrum";
+  /**
+   * What the parsed values are in: percent of the fundamental ("%", the default)
+   * or RMS amperes ("A"). Bare numbers are read in this unit; other forms are converted.
+   */
+  valueUnit?: SpectrumValueUnit;
+  /** When the unit follows a choice input, e.g. { input: "standard", units: { "iec61000-3-2-a": "A" } }; unlisted options use valueUnit. */
+  valueUnitByChoice?: { input: string; units: Record<string, SpectrumValueUnit> };
+  /** Highest harmonic order accepted (default 1000). */
+  maxOrder?: number;
   default?: string;
 }
+
+export type SpectrumValueUnit = "%" | "A";
 
 /** A mathjs expression with units (formula calculator only). */
 export interface ExpressionInputSpec extends InputSpecBase {
@@ -119,6 +133,8 @@ export interface Harmonic {
   peak: number;
   rms: number;
   percent: number;
+  /** Frequency of this order in Hz (n × fundamental frequency), when the calculator knows it. */
+  frequency?: number;
 }
 
 /** A point of a Bode magnitude plot. */
@@ -135,6 +151,8 @@ export interface LimitRow {
   pass: boolean;
   /** limit − value, in the table's unit; negative means over the limit. */
   margin: number;
+  /** The table's unit: "%" (of the fundamental) or "A". */
+  unit?: string;
 }
 
 /** Where a limit table comes from; printed beside every verdict. */
