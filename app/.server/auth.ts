@@ -1,0 +1,98 @@
+import { betterAuth } from "better-auth";
+import { drizzleAdapter } from "better-auth/adapters/drizzle";
+import { organization } from "better-auth/plugins";
+import { createAccessControl } from "better-auth/plugins/access";
+import { adminAc, defaultStatements } from "better-auth/plugins/organization/access";
+import { config, trustedOrigins } from "./config";
+import { db } from "./db/client";
+import * as schema from "./db/schema";
+import { enqueueMail } from "./mail/outbox";
+
+// Only admins manage the team through better-auth's organization endpoints;
+// the other roles' powers (writing and checking sheets) are enforced by requireMember.
+const ac = createAccessControl(defaultStatements);
+const noTeamPowers = ac.newRole({ organization: [], member: [], invitation: [], team: [], ac: [] });
+const roles = {
+  admin: ac.newRole(adminAc.statements),
+  checker: noTeamPowers,
+  engineer: noTeamPowers,
+  viewer: noTeamPowers,
+};
+
+/** The client IP header our server sets from the socket (or trusted proxy); clients cannot forge it. */
+export const CLIENT_IP_HEADER = "x-sinewright-client-ip";
+
+function createAuth() {
+  const cfg = config();
+  return betterAuth({
+    appName: "Sinewright",
+    baseURL: cfg.APP_URL,
+    basePath: "/api/auth",
+    secret: cfg.BETTER_AUTH_SECRET,
+    trustedOrigins: trustedOrigins(),
+    database: drizzleAdapter(db(), { provider: "pg", schema }),
+    emailAndPassword: {
+      enabled: true,
+      minPasswordLength: 10,
+      resetPasswordTokenExpiresIn: 60 * 60,
+      revokeSessionsOnPasswordReset: true,
+      async sendResetPassword({ user, url }) {
+        await enqueueMail({
+          to: user.email,
+          subject: "Reset your Sinewright password",
+          text:
+            `Someone (hopefully you) asked to reset the password for ${user.email}.\n\n` +
+            `Choose a new password here (the link works for one hour):\n${url}\n\n` +
+            `If you did not ask for this, ignore this message; your password stays as it is.`,
+        });
+      },
+    },
+    session: { expiresIn: 60 * 60 * 24 * 14, updateAge: 60 * 60 * 24 },
+    rateLimit: {
+      enabled: cfg.NODE_ENV !== "test" || process.env.RATE_LIMIT_IN_TESTS === "1",
+      storage: "database",
+      window: 60,
+      max: 100,
+      customRules: {
+        "/sign-in/email": { window: 60, max: 10 },
+        "/sign-up/email": { window: 60, max: 10 },
+        "/request-password-reset": { window: 300, max: 5 },
+      },
+    },
+    advanced: {
+      ipAddress: { ipAddressHeaders: [CLIENT_IP_HEADER] },
+      useSecureCookies: cfg.APP_URL.startsWith("https://"),
+      defaultCookieAttributes: { sameSite: "lax", httpOnly: true },
+    },
+    telemetry: { enabled: false },
+    plugins: [
+      organization({
+        ac,
+        roles,
+        creatorRole: "admin",
+        allowUserToCreateOrganization: true,
+        invitationExpiresIn: 60 * 60 * 24 * 7,
+        cancelPendingInvitationsOnReInvite: true,
+        async sendInvitationEmail({ email, role, organization: team, inviter, id }) {
+          const url = new URL(`/invitations/${id}`, cfg.APP_URL).toString();
+          await enqueueMail({
+            to: email,
+            subject: `${inviter.user.name} invited you to ${team.name} on Sinewright`,
+            text:
+              `${inviter.user.name} (${inviter.user.email}) invited you to join the team "${team.name}" on Sinewright as ${role}.\n\n` +
+              `Accept the invitation here (it works for seven days):\n${url}\n\n` +
+              `Sign up with this e-mail address (${email}) if you have no account yet.`,
+          });
+        },
+      }),
+    ],
+  });
+}
+
+export type Auth = ReturnType<typeof createAuth>;
+let instance: Auth | undefined;
+
+export function auth(): Auth {
+  instance ??= createAuth();
+  return instance;
+}

@@ -1,0 +1,42 @@
+import { z } from "zod";
+
+/**
+ * Every setting the server reads, validated once at start. A bad or missing
+ * value stops the process with a message naming the variable; secrets are
+ * never echoed back.
+ */
+const schema = z.object({
+  NODE_ENV: z.enum(["development", "production", "test"]).default("production"),
+  DATABASE_URL: z.string().url({ message: "must be a postgres:// URL" }),
+  APP_URL: z.string().url({ message: "must be the public base URL, e.g. https://sinewright.example.com" }).default("http://localhost:3000"),
+  BETTER_AUTH_SECRET: z.string().min(32, { message: "must be at least 32 characters (generate one with `openssl rand -hex 32`)" }),
+  TRUSTED_ORIGINS: z.string().default(""),
+  SMTP_URL: z.string().url({ message: "must be an smtp:// or smtps:// URL" }).default("smtp://127.0.0.1:1025"),
+  MAIL_FROM: z.string().default("Sinewright <no-reply@sinewright.invalid>"),
+  MAIL_CATCHER_URL: z.string().url().optional(),
+  TRUST_PROXY: z.string().default("loopback"),
+  LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
+  DEV_PAGES: z.enum(["0", "1"]).default("0"),
+});
+
+export type AppConfig = z.infer<typeof schema>;
+
+let cached: AppConfig | undefined;
+
+export function config(): AppConfig {
+  if (cached) return cached;
+  const parsed = schema.safeParse(process.env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((issue) => `  ${issue.path.join(".")}: ${issue.message}`);
+    throw new Error(`Sinewright cannot start: fix these environment variables:\n${lines.join("\n")}`);
+  }
+  cached = parsed.data;
+  return cached;
+}
+
+/** Origins allowed to post forms and call the auth API: the app URL plus any listed. */
+export function trustedOrigins(): string[] {
+  const cfg = config();
+  const extra = cfg.TRUSTED_ORIGINS.split(",").map((s) => s.trim()).filter(Boolean);
+  return [new URL(cfg.APP_URL).origin, ...extra];
+}

@@ -1,0 +1,48 @@
+import { PassThrough } from "node:stream";
+import { randomBytes } from "node:crypto";
+import { createReadableStreamFromReadable } from "@react-router/node";
+import { isbot } from "isbot";
+import { renderToPipeableStream } from "react-dom/server";
+import { ServerRouter, type EntryContext } from "react-router";
+import { applySecurityHeaders } from "./.server/security-headers";
+import { startBackgroundWork, stopBackgroundWork } from "./.server/lifecycle";
+
+export const streamTimeout = 5_000;
+
+/** Called by server.js before it listens: migrations and the outbox worker. */
+export { startBackgroundWork as prepareServer, stopBackgroundWork as stopServer };
+
+export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
+  // One nonce per response: the framework's own inline scripts carry it; nothing else may run inline.
+  const nonce = randomBytes(16).toString("base64");
+  applySecurityHeaders(responseHeaders, { nonce, html: true });
+  return new Promise((resolve, reject) => {
+    let shellRendered = false;
+    const userAgent = request.headers.get("user-agent");
+    const readyOption = (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
+    const { pipe, abort } = renderToPipeableStream(<ServerRouter context={routerContext} url={request.url} nonce={nonce} />, {
+      nonce,
+      [readyOption]() {
+        shellRendered = true;
+        const body = new PassThrough();
+        const stream = createReadableStreamFromReadable(body);
+        responseHeaders.set("Content-Type", "text/html; charset=utf-8");
+        resolve(new Response(stream, { headers: responseHeaders, status: responseStatusCode }));
+        pipe(body);
+      },
+      onShellError(error: unknown) {
+        reject(error);
+      },
+      onError(error: unknown) {
+        responseStatusCode = 500;
+        if (shellRendered) console.error(error);
+      },
+    });
+    setTimeout(abort, streamTimeout + 1000);
+  });
+}
+
+export function handleDataRequest(response: Response) {
+  applySecurityHeaders(response.headers, { html: false });
+  return response;
+}

@@ -1,0 +1,41 @@
+import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import type { Route } from "./+types/root";
+import { originGuard } from "./.server/origin-guard";
+import { startOutboxWorker } from "./.server/mail/outbox";
+import "./app.css";
+
+export const middleware: Route.MiddlewareFunction[] = [
+  async ({ request }, next) => {
+    originGuard(request);
+    // In production server.js starts the worker; under `npm run dev` the first request does.
+    startOutboxWorker();
+    return next();
+  },
+];
+
+export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.ico", sizes: "32x32" }];
+
+export function Layout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en">
+      <head>
+        <meta charSet="utf-8" />
+        <meta name="viewport" content="width=device-width, initial-scale=1" />
+        <Meta />
+        <Links />
+      </head>
+      <body className="min-h-screen">
+        {children}
+        <ScrollRestoration />
+        <Scripts />
+      </body>
+    </html>
+  );
+}
+
+export default function App() {
+  return <Outlet />;
+}
+
+/** Errors outside any page-level boundary (e.g. in the layout itself). */
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/route-error";

@@ -1,0 +1,27 @@
+import { type RouteConfig, index, layout, route } from "@react-router/dev/routes";
+
+export default [
+  index("routes/home.tsx"),
+  route("sign-in", "routes/sign-in.tsx"),
+  route("sign-up", "routes/sign-up.tsx"),
+  route("sign-out", "routes/sign-out.tsx"),
+  route("forgot-password", "routes/forgot-password.tsx"),
+  route("reset-password", "routes/reset-password.tsx"),
+  route("invitations/:invitationId", "routes/invitation.tsx"),
+  route("healthz", "routes/healthz.ts"),
+  route("api/auth/*", "routes/api.auth.$.ts"),
+  route("dev/mail", "routes/dev.mail.tsx"),
+
+  layout("routes/app-layout.tsx", [
+    route("teams/new", "routes/teams.new.tsx"),
+    route("teams/switch", "routes/teams.switch.ts"),
+    route("sheets", "routes/sheets.tsx"),
+    route("projects", "routes/projects.tsx"),
+    route("search", "routes/search.tsx"),
+    route("team", "routes/team.tsx"),
+    route("settings", "routes/settings.tsx"),
+  ]),
+
+  route("api/*", "routes/api.not-found.ts", { id: "api-not-found" }),
+  route("*", "routes/not-found.tsx"),
+] satisfies RouteConfig;

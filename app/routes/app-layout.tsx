@@ -1,0 +1,136 @@
+import { Form, NavLink, Outlet, redirect, useLoaderData } from "react-router";
+import type { Route } from "./+types/app-layout";
+import { Wordmark } from "~/components/brand-mark";
+import { getSignedIn, membershipsOf } from "~/.server/access";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const signedIn = await getSignedIn(request);
+  const url = new URL(request.url);
+  if (!signedIn) throw redirect(`/sign-in?next=${encodeURIComponent(url.pathname + url.search)}`);
+  const teams = await membershipsOf(signedIn.user.id);
+  const team = teams.find((t) => t.teamId === signedIn.activeTeamId) ?? teams[0] ?? null;
+  if (!team && url.pathname !== "/teams/new") throw redirect("/teams/new");
+  return { user: signedIn.user, team, teams };
+}
+
+const NAV = [
+  { to: "/sheets", label: "Sheets" },
+  { to: "/projects", label: "Projects" },
+  { to: "/search", label: "Search" },
+  { to: "/calculators", label: "Calculators" },
+  { to: "/team", label: "Team" },
+];
+
+export default function AppLayout() {
+  const { user, team, teams } = useLoaderData<typeof loader>();
+  return (
+    <div className="min-h-screen">
+      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-3 focus:top-3 focus:z-10 focus:rounded focus:bg-sheet focus:px-3 focus:py-2">
+        Skip to content
+      </a>
+      <header className="border-b border-rule bg-sheet">
+        <div className="mx-auto flex max-w-6xl items-center gap-4 px-4 py-3 sm:px-6">
+          <NavLink to="/sheets" className="no-underline" aria-label="Sinewright — your sheets">
+            <Wordmark />
+          </NavLink>
+          <nav aria-label="Main" className="hidden md:block">
+            <ul className="flex items-center gap-1">
+              {NAV.map((item) => (
+                <li key={item.to}>
+                  <NavLink
+                    to={item.to}
+                    className={({ isActive }) =>
+                      `rounded-md px-3 py-1.5 text-sm no-underline ${isActive ? "bg-copper-wash font-semibold text-copper-deep" : "text-ink-soft hover:bg-paper hover:text-ink"}`
+                    }
+                  >
+                    {item.label}
+                  </NavLink>
+                </li>
+              ))}
+            </ul>
+          </nav>
+          <div className="ml-auto flex items-center gap-3">
+            {team ? (
+              teams.length > 1 ? (
+                <Form method="post" action="/teams/switch" className="flex items-center gap-2">
+                  <label htmlFor="team-switch" className="sr-only">
+                    Team
+                  </label>
+                  <select id="team-switch" name="teamId" defaultValue={team.teamId} className="field-input !w-auto !py-1 text-sm">
+                    {teams.map((t) => (
+                      <option key={t.teamId} value={t.teamId}>
+                        {t.teamName}
+                      </option>
+                    ))}
+                  </select>
+                  <button type="submit" className="btn btn-quiet !px-2 !py-1 text-xs">
+                    Switch
+                  </button>
+                </Form>
+              ) : (
+                <span className="hidden text-sm text-ink-soft sm:inline">{team.teamName}</span>
+              )
+            ) : null}
+            <details className="relative">
+              <summary className="flex cursor-pointer list-none items-center gap-2 rounded-md px-2 py-1 text-sm hover:bg-paper">
+                <span aria-hidden="true" className="grid h-7 w-7 place-items-center rounded-full bg-ink text-xs font-semibold text-sheet">
+                  {initials(user.name)}
+                </span>
+                <span className="sr-only">Account menu for {user.name}</span>
+              </summary>
+              <div className="panel absolute right-0 z-20 mt-2 w-60 p-3 shadow-lg">
+                <p className="text-sm font-semibold">{user.name}</p>
+                <p className="truncate text-xs text-ink-faint">{user.email}</p>
+                {team ? <p className="mt-1 text-xs text-ink-soft">{team.role} in {team.teamName}</p> : null}
+                <hr className="my-3 border-rule" />
+                <NavLink to="/settings" className="block rounded px-2 py-1.5 text-sm no-underline hover:bg-paper">
+                  Settings and API keys
+                </NavLink>
+                <NavLink to="/teams/new" className="block rounded px-2 py-1.5 text-sm no-underline hover:bg-paper">
+                  Start another team
+                </NavLink>
+                <Form method="post" action="/sign-out">
+                  <button type="submit" className="mt-1 w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper">
+                    Sign out
+                  </button>
+                </Form>
+              </div>
+            </details>
+          </div>
+        </div>
+        <nav aria-label="Main, compact" className="border-t border-rule md:hidden">
+          <ul className="flex gap-0.5 overflow-x-auto px-2 py-2">
+            {NAV.map((item) => (
+              <li key={item.to}>
+                <NavLink
+                  to={item.to}
+                  className={({ isActive }) =>
+                    `block whitespace-nowrap rounded-md px-2.5 py-1.5 text-sm no-underline ${isActive ? "bg-copper-wash font-semibold text-copper-deep" : "text-ink-soft"}`
+                  }
+                >
+                  {item.label}
+                </NavLink>
+              </li>
+            ))}
+          </ul>
+        </nav>
+      </header>
+      <main id="main" className="mx-auto max-w-6xl px-4 py-8 sm:px-6">
+        <Outlet />
+      </main>
+    </div>
+  );
+}
+
+function initials(name: string): string {
+  return (
+    name
+      .split(/\s+/)
+      .filter(Boolean)
+      .slice(0, 2)
+      .map((part) => part[0]!.toUpperCase())
+      .join("") || "?"
+  );
+}
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/route-error";

@@ -1,0 +1,76 @@
+import { data, Form, Link, redirect, useActionData, useLoaderData, useLocation } from "react-router";
+import type { Route } from "./+types/invitation";
+import { AuthFrame } from "~/components/auth-frame";
+import { FormError } from "~/components/form-fields";
+import { getSignedIn } from "~/.server/access";
+import { auth } from "~/.server/auth";
+import { recordAudit } from "~/.server/audit";
+import { getInvitation } from "~/.server/team";
+
+export const meta: Route.MetaFunction = () => [{ title: "Invitation · Sinewright" }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const invitation = await getInvitation(params.invitationId);
+  if (!invitation) throw new Response(null, { status: 404 });
+  const signedIn = await getSignedIn(request);
+  const usable = invitation.status === "pending" && invitation.expiresAt > new Date();
+  return {
+    invitation: { email: invitation.email, role: invitation.role, teamName: invitation.teamName, usable, status: invitation.status },
+    signedInAs: signedIn?.user.email ?? null,
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const signedIn = await getSignedIn(request);
+  if (!signedIn) throw redirect(`/sign-in?next=/invitations/${params.invitationId}`);
+  try {
+    const accepted = await auth().api.acceptInvitation({ headers: request.headers, body: { invitationId: params.invitationId } });
+    const teamId = accepted?.member.organizationId;
+    if (teamId) {
+      await auth().api.setActiveOrganization({ headers: request.headers, body: { organizationId: teamId } });
+      await recordAudit({ teamId, actorId: signedIn.user.id, action: "member.joined", subjectType: "member", subjectId: signedIn.user.id, detail: { role: accepted.member.role } });
+    }
+  } catch {
+    return data({ error: "This invitation cannot be accepted: it may have expired, been withdrawn, or be meant for another e-mail address." }, { status: 400 });
+  }
+  throw redirect("/sheets");
+}
+
+export default function Invitation() {
+  const { invitation, signedInAs } = useLoaderData<typeof loader>();
+  const result = useActionData<typeof action>();
+  const next = encodeURIComponent(useLocation().pathname);
+  const mismatch = signedInAs !== null && signedInAs.toLowerCase() !== invitation.email.toLowerCase();
+  return (
+    <AuthFrame title={`Join ${invitation.teamName}`} lead={`You are invited as ${invitation.role}, at ${invitation.email}.`}>
+      <FormError message={result?.error} />
+      {!invitation.usable ? (
+        <p className="text-ink-soft">This invitation is no longer open ({invitation.status}). Ask the team's admin to send a new one.</p>
+      ) : signedInAs === null ? (
+        <div className="space-y-3">
+          <p className="text-sm text-ink-soft">Sign in, or create an account with {invitation.email}, to accept.</p>
+          <div className="flex flex-wrap gap-3">
+            <Link className="btn btn-primary" to={`/sign-up?next=${next}`}>
+              Create an account
+            </Link>
+            <Link className="btn btn-quiet" to={`/sign-in?next=${next}`}>
+              Sign in
+            </Link>
+          </div>
+        </div>
+      ) : mismatch ? (
+        <p className="text-sm text-ink-soft">
+          You are signed in as {signedInAs}, but the invitation is for {invitation.email}. Sign out and sign in with that address.
+        </p>
+      ) : (
+        <Form method="post">
+          <button type="submit" className="btn btn-primary">
+            Accept and join {invitation.teamName}
+          </button>
+        </Form>
+      )}
+    </AuthFrame>
+  );
+}
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/route-error";

@@ -1,0 +1,7 @@
+export function loader() {
+  throw new Response(null, { status: 404, statusText: "Not Found" });
+}
+
+export default function NotFound() {
+  return null;
+}
