@@ -64,11 +64,11 @@ export function besselJOrders(x: number, nMax: number, out: Float64Array = new F
       current /= RESCALE_ABOVE;
       evenSum /= RESCALE_ABOVE;
       const storedTop = Math.min(nMax, start - 1);
-      for (let j = order; j <= storedTop; j++) out[j] /= RESCALE_ABOVE;
+      for (let j = order; j <= storedTop; j++) out[j]! /= RESCALE_ABOVE;
     }
   }
   const norm = 1 / (current + 2 * evenSum);
-  for (let j = 0; j <= nMax; j++) out[j] *= norm;
+  for (let j = 0; j <= nMax; j++) out[j]! *= norm;
   return out;
 }
 
@@ -95,7 +95,7 @@ export function besselJ(n: number, x: number): number {
   if (!Number.isInteger(n)) throw new RangeError(`besselJ needs an integer order, got ${n}`);
   if (!Number.isFinite(x)) throw new RangeError(`besselJ needs a finite argument, got ${x}`);
   const order = Math.abs(n);
-  const value = besselJOrders(Math.abs(x), order)[order];
+  const value = besselJOrders(Math.abs(x), order)[order]!;
   const flip = (n < 0 ? order : 0) + (x < 0 ? order : 0);
   return flip % 2 === 1 ? -value : value;
 }
