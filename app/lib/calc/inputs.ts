@@ -300,7 +300,8 @@ function schemaFor(calculator: Calculator) {
   if (cached) return cached;
   const shape: Record<string, z.ZodType<FirstPass>> = {};
   for (const spec of calculator.inputs) {
-    shape[spec.key] = z.unknown().transform((raw, ctx): FirstPass => {
+    // .optional() first, so an absent key still reaches the transform (defaults, "required" messages).
+    shape[spec.key] = z.unknown().optional().transform((raw, ctx): FirstPass => {
       const issue: Issue = (message) => ctx.addIssue({ code: "custom", message });
       const absent = raw === undefined || raw === null || (typeof raw === "string" && raw.trim() === "");
       if (absent) {

@@ -43,6 +43,7 @@ import {
   unaryMinusDependencies,
   unaryPlusDependencies,
   unitDependencies,
+  type FactoryFunctionMap,
   type MathNode,
   type Unit,
 } from "mathjs";
@@ -79,7 +80,7 @@ const instance = create(
     ceilDependencies,
     piDependencies,
     eDependencies,
-  },
+  } as FactoryFunctionMap,
   {},
 );
 
@@ -194,10 +195,15 @@ export function dimensionOf(quantity: Unit | number): Dimension | undefined {
   return undefined;
 }
 
-/** A mathjs unit or number as our engine's plain value in `dimension`'s SI unit. */
+/**
+ * A mathjs unit as our engine's plain value in `dimension`'s SI unit, rounded to
+ * 15 significant figures so prefix arithmetic leaves no float dust: "10 uF" is
+ * 1e-5 exactly as "1e-5 F" is, and "4.7 uF" equals "4700 nF".
+ */
 function toSi(quantity: Unit, dimension: Dimension): number {
   const unit = SI_UNIT[dimension];
-  return unit === "" ? quantity.toNumber() : quantity.toNumber(unit);
+  const value = unit === "" ? quantity.toNumber() : quantity.toNumber(unit);
+  return Number.isFinite(value) ? Number(value.toPrecision(15)) : value;
 }
 
 /** How a quantity reads back in an error message ("5 V", "0.2 rad"). */
