@@ -61,7 +61,13 @@ function plain(magnitude: number, digits: number): string {
     const [mantissa, exponent] = magnitude.toExponential(digits - 1).split("e");
     return `${mantissa}e${Number(exponent)}`;
   }
-  return magnitude.toPrecision(digits);
+  return precise(magnitude, digits);
+}
+
+/** toPrecision without its exponent form: 1500 at 3 digits is "1500", not "1.50e+3". */
+function precise(magnitude: number, digits: number): string {
+  const text = magnitude.toPrecision(digits);
+  return text.includes("e") ? String(Number(text)) : text;
 }
 
 /**
@@ -91,7 +97,7 @@ export function formatQuantity(value: number, unit: string, opts: FormatOptions 
   if (!prefix) return withUnit(sign + tidy(plain(magnitude, digits)), "", unit);
 
   const scaled = rounded / 10 ** exponent;
-  return withUnit(sign + tidy(scaled.toPrecision(digits)), prefix.symbol, unit);
+  return withUnit(sign + tidy(precise(scaled, digits)), prefix.symbol, unit);
 }
 
 /** A scalar result with its display text: the form every calculator returns numbers in. */

@@ -218,9 +218,9 @@ export function describeRange(spec: QuantitySpec): string | undefined {
   const show = (v: number) => formatQuantity(v, unit, { digits: 6, trimZeros: true });
   const { min, max } = spec;
   if (min !== undefined && max !== undefined) {
-    const lo = spec.minExclusive ? `above ${show(min)}` : show(min);
-    const hi = spec.maxExclusive ? `below ${show(max)}` : show(max);
-    if (!spec.minExclusive && !spec.maxExclusive) return `between ${lo} and ${hi}`;
+    if (!spec.minExclusive && !spec.maxExclusive) return `between ${show(min)} and ${show(max)}`;
+    const lo = spec.minExclusive ? `above ${show(min)}` : `at least ${show(min)}`;
+    const hi = spec.maxExclusive ? `below ${show(max)}` : `at most ${show(max)}`;
     return `${lo} and ${hi}`;
   }
   if (min !== undefined) return spec.minExclusive ? `greater than ${show(min)}` : `at least ${show(min)}`;
