@@ -49,7 +49,7 @@ function createAuth() {
     },
     session: { expiresIn: 60 * 60 * 24 * 14, updateAge: 60 * 60 * 24 },
     rateLimit: {
-      enabled: cfg.NODE_ENV !== "test" || process.env.RATE_LIMIT_IN_TESTS === "1",
+      enabled: cfg.RATE_LIMITS === "on",
       storage: "database",
       window: 60,
       max: 100,

@@ -1,0 +1,73 @@
+/**
+ * A minimal cookie-keeping HTTP client for testing the running server the way a
+ * browser without JavaScript would: form posts with our Origin, redirects not followed.
+ */
+export const BASE_URL = process.env.SINEWRIGHT_TEST_URL ?? "http://localhost:3000";
+
+export class Visitor {
+  private cookies = new Map<string, string>();
+
+  cookieHeader(): string {
+    return [...this.cookies].map(([k, v]) => `${k}=${v}`).join("; ");
+  }
+
+  private remember(response: Response) {
+    for (const line of response.headers.getSetCookie()) {
+      const [pair] = line.split(";");
+      const eq = pair!.indexOf("=");
+      const key = pair!.slice(0, eq).trim();
+      const value = pair!.slice(eq + 1).trim();
+      if (/max-age=0/i.test(line) || value === "") this.cookies.delete(key);
+      else this.cookies.set(key, value);
+    }
+  }
+
+  async request(path: string, init: RequestInit = {}): Promise<Response> {
+    const headers = new Headers(init.headers);
+    if (this.cookies.size > 0) headers.set("cookie", this.cookieHeader());
+    if (init.method && init.method !== "GET" && !headers.has("origin")) headers.set("origin", new URL(BASE_URL).origin);
+    const response = await fetch(new URL(path, BASE_URL), { ...init, headers, redirect: "manual" });
+    this.remember(response);
+    return response;
+  }
+
+  get(path: string, headers: Record<string, string> = {}) {
+    return this.request(path, { headers });
+  }
+
+  postForm(path: string, fields: Record<string, string>, headers: Record<string, string> = {}) {
+    return this.request(path, { method: "POST", body: new URLSearchParams(fields), headers });
+  }
+
+  postJson(path: string, body: unknown, headers: Record<string, string> = {}) {
+    return this.request(path, { method: "POST", body: JSON.stringify(body), headers: { "content-type": "application/json", ...headers } });
+  }
+
+  /** Signs in through the page's form; throws unless it redirects (success). */
+  async signIn(email: string, password = "sinewright-demo"): Promise<this> {
+    const response = await this.postForm("/sign-in", { email, password, next: "" });
+    if (response.status !== 302) throw new Error(`sign-in as ${email} answered ${response.status}`);
+    return this;
+  }
+}
+
+export function uniqueEmail(label: string): string {
+  return `${label}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 7)}@example.org`;
+}
+
+/** Creates an account through the sign-up form and returns the signed-in visitor. */
+export async function signUp(label: string, password = "correct-horse-battery") {
+  const email = uniqueEmail(label);
+  const visitor = new Visitor();
+  const response = await visitor.postForm("/sign-up", { name: `Test ${label}`, email, password, next: "" });
+  if (response.status !== 302) throw new Error(`sign-up answered ${response.status}`);
+  return { visitor, email, password };
+}
+
+/** Signs up and starts a team; the visitor is its admin. */
+export async function signUpWithTeam(label: string) {
+  const account = await signUp(label);
+  const response = await account.visitor.postForm("/teams/new", { name: `Team ${label}` });
+  if (response.status !== 302) throw new Error(`creating a team answered ${response.status}`);
+  return account;
+}
