@@ -1,4 +1,4 @@
-import { type RouteConfig, index, layout, route } from "@react-router/dev/routes";
+import { type RouteConfig, index, layout, prefix, route } from "@react-router/dev/routes";
 
 export default [
   index("routes/home.tsx"),
@@ -20,6 +20,13 @@ export default [
     route("search", "routes/search.tsx"),
     route("team", "routes/team.tsx"),
     route("settings", "routes/settings.tsx"),
+    route("calculators", "routes/calculators.tsx"),
+  ]),
+
+  ...prefix("api/v1", [
+    route("calculators", "routes/api.v1.calculators.ts"),
+    route("calculators/:calculatorId/evaluate", "routes/api.v1.calculators.$calculatorId.evaluate.ts"),
+    route("evaluate", "routes/api.v1.evaluate.ts"),
   ]),
 
   route("api/*", "routes/api.not-found.ts", { id: "api-not-found" }),

@@ -1,0 +1,33 @@
+import type { z } from "zod";
+
+/** The one shape of an API error: a sentence, and per-field messages where there are fields. */
+export function apiError(status: number, error: string, fieldErrors?: { field: string; message: string }[]): Response {
+  return Response.json(fieldErrors ? { error, fieldErrors } : { error }, { status });
+}
+
+/** Reads and validates a JSON body; throws a 400 that says what to fix. Never lets junk reach the engine. */
+export async function readJson<T extends z.ZodType>(request: Request, schema: T): Promise<z.infer<T>> {
+  const type = request.headers.get("content-type") ?? "";
+  if (!type.includes("application/json")) throw apiError(415, "Send the body as JSON with `Content-Type: application/json`.");
+  const text = await request.text();
+  if (text.length > 1_000_000) throw apiError(413, "The body is larger than 1 MB.");
+  let body: unknown;
+  try {
+    body = JSON.parse(text);
+  } catch {
+    throw apiError(400, "The body is not valid JSON.");
+  }
+  const parsed = schema.safeParse(body);
+  if (!parsed.success) {
+    throw apiError(
+      400,
+      "The request body does not have the expected shape.",
+      parsed.error.issues.map((issue) => ({ field: issue.path.join(".") || "body", message: issue.message })),
+    );
+  }
+  return parsed.data;
+}
+
+export function methodNotAllowed(allowed: string): Response {
+  return Response.json({ error: `Use ${allowed} on this endpoint.` }, { status: 405, headers: { Allow: allowed } });
+}
