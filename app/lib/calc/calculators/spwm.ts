@@ -129,7 +129,7 @@ const bridgeInput: ChoiceInputSpec = {
 
 const hmaxInput = highestOrderInput("100");
 
-/** Above this many carrier groups the 1/n weighting leaves < 1e-4 of the weighted THD (non-integer mf only). */
+/** Carrier groups summed for the weighted THD when mf is not an integer; the 1/n weighting leaves ~2e-5 of it beyond. */
 const WEIGHTED_GROUPS = 20;
 
 /** Asynchronous lines below this fraction of the fundamental are not listed. */
