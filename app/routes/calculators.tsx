@@ -129,7 +129,7 @@ export default function Calculators() {
             {c.formulas.length > 0 ? (
               <>
                 <h3 className="mt-6 font-semibold">Formulas</h3>
-                <dl className="mt-2 space-y-2">
+                <dl className="formula-list mt-2 space-y-2">
                   {c.formulas.map((f) => (
                     <div key={f.label} className="grid gap-1 sm:grid-cols-[14rem_1fr] sm:items-center">
                       <dt className="text-sm text-ink-soft">{f.label}</dt>
