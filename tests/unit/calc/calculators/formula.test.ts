@@ -1,13 +1,11 @@
-import { all, create } from "mathjs";
+import * as reference from "mathjs";
 import { describe, expect, it } from "vitest";
 import { evaluateSheet } from "~/lib/calc/evaluate-sheet";
 import type { ScalarResult } from "~/lib/calc/types";
 import { expectClose } from "../../../support/tolerance";
 import { refuse } from "./run-helpers";
 
-// Cross-check: the full mathjs bundle evaluates the same arithmetic with the referenced values written in.
-const reference = create(all);
-
+/** Evaluates `expr` on a small sheet; tests cross-check it with the full mathjs bundle, the referenced values written in. */
 function formulaValue(expr: string): ScalarResult {
   const sheet = evaluateSheet([
     { id: "hb1", calculator: "half-bridge", inputs: { vdc: "48 V" } },

@@ -1,13 +1,10 @@
-import { all, create } from "mathjs";
+import * as reference from "mathjs";
 import { describe, expect, it } from "vitest";
 import type { BodePoint } from "~/lib/calc/types";
 import { expectClose } from "../../../support/tolerance";
 import { refuse, run, valueOf } from "./run-helpers";
 
-// The full mathjs bundle, independent of the engine's lean instance, for complex arithmetic.
-const reference = create(all);
-
-/** |H| from the circuit itself: Vout/Vin = Z_RC / (jωL + Z_RC), in complex numbers. */
+/** |H| from the circuit itself, Vout/Vin = Z_RC / (jωL + Z_RC), in the full mathjs bundle's complex numbers (independent of the engine). */
 function circuitGain(f: number, l: number, c: number, r?: number): number {
   const w = 2 * Math.PI * f;
   const zc = reference.complex(0, -1 / (w * c));
