@@ -138,9 +138,22 @@ function checkNode(node: AnyNode, depth: number, references: BlockReference[]): 
   }
 }
 
+/** Checked expressions by text: a sheet parses each expression several times (dependencies, inputs, evaluation). */
+const checkedCache = new Map<string, ExpressionCheck>();
+const CACHE_SIZE = 500;
+
 /** Parses and checks an expression without evaluating it. Never throws. */
 export function checkExpression(text: unknown): ExpressionCheck {
   if (typeof text !== "string") return { ok: false, message: "an expression must be text" };
+  const cached = checkedCache.get(text);
+  if (cached) return cached;
+  const checked = checkUncached(text);
+  if (checkedCache.size >= CACHE_SIZE) checkedCache.delete(checkedCache.keys().next().value!);
+  checkedCache.set(text, checked);
+  return checked;
+}
+
+function checkUncached(text: string): ExpressionCheck {
   const body = text.startsWith("=") ? text.slice(1) : text;
   if (body.length > MAX_EXPRESSION_LENGTH) {
     return { ok: false, message: `the expression is too long (${body.length} characters; the limit is ${MAX_EXPRESSION_LENGTH})` };
@@ -165,7 +178,7 @@ export function checkExpression(text: unknown): ExpressionCheck {
 /** The blocks an expression refers to (empty when it does not parse). */
 export function expressionReferences(text: string): BlockReference[] {
   const checked = checkExpression(text);
-  return checked.ok ? checked.references : [];
+  return checked.ok ? [...checked.references] : [];
 }
 
 function isScalarResult(value: ResultValue | undefined): value is ScalarResult {
