@@ -16,7 +16,7 @@
  * fraction in arithmetic (48.3 % → 0.483) and a decibel result its dB number.
  */
 import type { MathNode } from "mathjs";
-import { math, parseExpressionTree, type MathUnit } from "./units";
+import { math, normaliseUnitText, parseExpressionTree, type MathUnit } from "./units";
 import type { ResultValue, Results, ScalarResult } from "./types";
 
 export const MAX_EXPRESSION_LENGTH = 500;
@@ -161,7 +161,8 @@ function checkUncached(text: string): ExpressionCheck {
   if (body.trim() === "") return { ok: false, message: "the expression is empty; e.g. qs1.v1Rms * 1.1" };
   let tree: MathNode;
   try {
-    tree = parseExpressionTree(body.replace(/[\u00b5\u03bc]/g, "u").replace(/[\u03a9\u2126]/g, "ohm").replace(/\u2212/g, "-"));
+    // The same spellings as typed quantities: µ/μ, Ω, °, °C, Unicode minus.
+    tree = parseExpressionTree(normaliseUnitText(body));
   } catch (error) {
     return { ok: false, message: `could not read the expression: ${error instanceof Error ? error.message : String(error)}` };
   }

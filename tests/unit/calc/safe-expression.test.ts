@@ -46,6 +46,8 @@ describe("evaluateExpression: what is allowed", () => {
 
   it("evaluates the allowed functions with units: sin(30 deg) = 1/2", () => {
     expectClose(quantity("sin(30 deg)").quantity as number, 0.5, { rel: 1e-12 });
+    expectClose(quantity("sin(30°)").quantity as number, 0.5, { rel: 1e-12 });
+    expectClose((quantity("2 * 4.7 µF").quantity as MathUnit).toNumber("uF"), 9.4, { rel: 1e-12 });
     expectClose((quantity("sqrt(16 V^2)").quantity as MathUnit).toNumber("V"), 4, { rel: 1e-12 });
     expectClose((quantity("max(2 V, 3 V)").quantity as MathUnit).toNumber("V"), 3, { rel: 1e-12 });
   });
