@@ -1,4 +1,4 @@
-import { index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
+import { boolean, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { organization, user } from "./auth-schema";
 import { createdAt, id } from "./columns";
@@ -56,4 +56,123 @@ export const auditEvent = pgTable(
     createdAt: createdAt(),
   },
   (t) => [index("audit_event_team_idx").on(t.teamId, t.createdAt), index("audit_event_subject_idx").on(t.subjectType, t.subjectId)],
+);
+
+/** A product or job of the team: its sheets and documents live under it. */
+export const project = pgTable(
+  "project",
+  {
+    id: id(),
+    teamId: text("team_id")
+      .notNull()
+      .references(() => organization.id, { onDelete: "cascade" }),
+    /** Short code the team uses for the job, e.g. "PUMP-3K"; unique in the team. */
+    code: text("code").notNull(),
+    name: text("name").notNull(),
+    client: text("client").notNull().default(""),
+    description: text("description").notNull().default(""),
+    createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("project_team_code_idx").on(t.teamId, t.code)],
+);
+
+/** A calc sheet: one design calculation, numbered per team (CS-0001), in a project or in the team library. */
+export const calcSheet = pgTable(
+  "calc_sheet",
+  {
+    id: id(),
+    teamId: text("team_id")
+      .notNull()
+      .references(() => organization.id, { onDelete: "cascade" }),
+    number: integer("number").notNull(),
+    title: text("title").notNull(),
+    /** Null: the sheet lives in the team library rather than a project. */
+    projectId: text("project_id").references(() => project.id, { onDelete: "set null" }),
+    tags: text("tags").array().notNull().default(sql`'{}'::text[]`),
+    latestRevisionId: text("latest_revision_id"),
+    createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("calc_sheet_team_number_idx").on(t.teamId, t.number), index("calc_sheet_project_idx").on(t.projectId)],
+);
+
+/**
+ * One saved revision of a sheet (A, B, C …). Its content — source, results, engine
+ * version and hash — never changes once written (a trigger enforces it).
+ */
+export const sheetRevision = pgTable(
+  "sheet_revision",
+  {
+    id: id(),
+    sheetId: text("sheet_id")
+      .notNull()
+      .references(() => calcSheet.id, { onDelete: "restrict" }),
+    teamId: text("team_id")
+      .notNull()
+      .references(() => organization.id, { onDelete: "cascade" }),
+    sequence: integer("sequence").notNull(),
+    label: text("label").notNull(),
+    source: text("source").notNull(),
+    /** The checked render tree (data, never code): the per-revision render cache. */
+    renderTree: jsonb("render_tree").notNull(),
+    engineVersion: text("engine_version").notNull(),
+    /** SHA-256 of the canonical serialization of source, inputs, results and engine version. */
+    contentHash: text("content_hash").notNull(),
+    /** What changed, in the author's words. */
+    note: text("note").notNull().default(""),
+    state: text("state").notNull().default("draft"),
+    authorId: text("author_id").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("sheet_revision_sheet_sequence_idx").on(t.sheetId, t.sequence), index("sheet_revision_team_idx").on(t.teamId)],
+);
+
+/** Each block of each revision as a row, so SQL can ask e.g. for every lc-filter with f0 between 1 and 3 kHz. */
+export const revisionBlock = pgTable(
+  "revision_block",
+  {
+    id: id(),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => sheetRevision.id, { onDelete: "restrict" }),
+    sheetId: text("sheet_id").notNull(),
+    teamId: text("team_id").notNull(),
+    blockId: text("block_id").notNull(),
+    calculator: text("calculator").notNull(),
+    position: integer("position").notNull(),
+    /** Inputs as the author typed them. */
+    inputs: jsonb("inputs").notNull(),
+    /** Inputs in SI units after parsing (absent when the block failed). */
+    parsedInputs: jsonb("parsed_inputs"),
+    /** Server-computed results (absent when the block failed). */
+    results: jsonb("results"),
+    ok: boolean("ok").notNull(),
+    errors: jsonb("errors").notNull().default([]),
+    warnings: jsonb("warnings").notNull().default([]),
+  },
+  (t) => [
+    uniqueIndex("revision_block_revision_block_idx").on(t.revisionId, t.blockId),
+    index("revision_block_team_calculator_idx").on(t.teamId, t.calculator),
+  ],
+);
+
+/** The autosaved working copy of a sheet, one per author and sheet, with the revision it was started from. */
+export const sheetDraft = pgTable(
+  "sheet_draft",
+  {
+    id: id(),
+    sheetId: text("sheet_id")
+      .notNull()
+      .references(() => calcSheet.id, { onDelete: "cascade" }),
+    authorId: text("author_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    source: text("source").notNull(),
+    baseRevisionId: text("base_revision_id"),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("sheet_draft_sheet_author_idx").on(t.sheetId, t.authorId)],
 );

@@ -1,0 +1,24 @@
+import { z } from "zod";
+
+export const tagList = z
+  .string()
+  .default("")
+  .transform((text) => [...new Set(text.split(",").map((t) => t.trim().toLowerCase()).filter(Boolean))])
+  .pipe(z.array(z.string().max(40, "Keep each tag under 40 characters.")).max(12, "Use at most 12 tags."));
+
+export const sheetDetailsForm = z.object({
+  title: z.string().trim().min(3, "Give the sheet a title of at least 3 characters, e.g. “Output filter for the 3 kW stage”.").max(160, "Keep the title under 160 characters."),
+  projectId: z.string().default(""),
+  tags: tagList,
+});
+
+export const projectForm = z.object({
+  code: z
+    .string()
+    .trim()
+    .toUpperCase()
+    .regex(/^[A-Z0-9][A-Z0-9-]{1,23}$/, "Use 2–24 letters, digits or hyphens for the code, e.g. PUMP-3K."),
+  name: z.string().trim().min(3, "Give the project a name of at least 3 characters.").max(120, "Keep the name under 120 characters."),
+  client: z.string().trim().max(120, "Keep the client under 120 characters.").default(""),
+  description: z.string().trim().max(2000, "Keep the description under 2000 characters.").default(""),
+});
