@@ -74,6 +74,7 @@ try {
         ...testEnv,
         DATABASE_URL: serverDbUrl,
         TEST_TEMPLATE_DATABASE_URL: templateUrl,
+        TEST_SERVER_DATABASE_URL: serverDbUrl,
         TEST_RUN_TAG: runTag,
         SINEWRIGHT_TEST_URL: appUrl,
       },

@@ -1,0 +1,264 @@
+import { markdown } from "@codemirror/lang-markdown";
+import type { EditorView } from "@codemirror/view";
+import CodeMirror from "@uiw/react-codemirror";
+import { useCallback, useDeferredValue, useEffect, useMemo, useRef, useState } from "react";
+import { data, Form, Link, redirect, useActionData, useFetcher, useLoaderData, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/sheets.$number.edit";
+import { HardwareCaution } from "~/components/caution";
+import { FormError, Notice } from "~/components/form-fields";
+import { SheetView } from "~/components/sheet-view";
+import { blockSnippet, nextBlockId, setBlockInput } from "~/lib/mdx";
+import { SOURCE_LIMITS, type SourceProblem } from "~/lib/mdx/types";
+import { parseSheetNumber } from "~/lib/sheets/numbering";
+import { prepareSheet } from "~/lib/sheets/pipeline";
+import { requireMember } from "~/.server/access";
+import { discardDraft, getDraft, getRevisionById, getSheet, saveDraft, saveRevision, STARTER_SOURCE } from "~/.server/sheets";
+import { calculators } from "~/lib/calc/registry";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Editing ${data.sheet.label} · Sinewright` : "Editor · Sinewright" }];
+
+async function loadSheet(request: Request, numberText: string) {
+  const me = await requireMember(request, "engineer");
+  const number = parseSheetNumber(numberText);
+  const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
+  if (!sheet) throw new Response(null, { status: 404 });
+  return { me, sheet };
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { me, sheet } = await loadSheet(request, params.number);
+  const [latest, draft] = await Promise.all([sheet.latestRevisionId ? getRevisionById(sheet.latestRevisionId) : undefined, getDraft(sheet.id, me.user.id)]);
+  return {
+    sheet: { label: sheet.label, title: sheet.title },
+    base: latest ? { id: latest.id, label: latest.label } : null,
+    source: draft?.source ?? latest?.source ?? STARTER_SOURCE,
+    draft: draft ? { updatedAt: draft.updatedAt.toISOString(), staleBase: (draft.baseRevisionId ?? null) !== (latest?.id ?? null) } : null,
+    draftBaseId: draft ? draft.baseRevisionId : null,
+    palette: calculators.map((c) => ({ id: c.id, title: c.title, summary: c.summary })),
+  };
+}
+
+const editorAction = z.discriminatedUnion("intent", [
+  z.object({
+    intent: z.literal("save"),
+    source: z.string().max(SOURCE_LIMITS.maxLength * 2, "The source is far over the 200 KB limit."),
+    baseRevisionId: z.string().default(""),
+    note: z.string().trim().max(500, "Keep the revision note under 500 characters.").default(""),
+  }),
+  z.object({ intent: z.literal("autosave"), source: z.string().max(SOURCE_LIMITS.maxLength * 2), baseRevisionId: z.string().default("") }),
+  z.object({ intent: z.literal("discard-draft") }),
+]);
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { me, sheet } = await loadSheet(request, params.number);
+  const parsed = editorAction.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) {
+    return data({ problems: [] as SourceProblem[], conflict: null as string | null, error: parsed.error.issues[0]?.message ?? "The form was incomplete.", savedAt: null as string | null }, { status: 400 });
+  }
+  const input = parsed.data;
+  if (input.intent === "autosave") {
+    await saveDraft(sheet.id, me.user.id, input.source, input.baseRevisionId || null);
+    return { problems: [] as SourceProblem[], conflict: null as string | null, error: null as string | null, savedAt: new Date().toISOString() };
+  }
+  if (input.intent === "discard-draft") {
+    await discardDraft(sheet.id, me.user.id);
+    throw redirect(`/sheets/${sheet.label}/edit`);
+  }
+  const outcome = await saveRevision(me, sheet, { source: input.source, baseRevisionId: input.baseRevisionId || null, note: input.note });
+  if (outcome.ok) throw redirect(`/sheets/${sheet.label}`);
+  if (outcome.reason === "invalid") {
+    return data({ problems: outcome.problems, conflict: null as string | null, error: "The sheet was not saved: fix the problems listed, then save again." as string | null, savedAt: null as string | null }, { status: 400 });
+  }
+  return data({ problems: [] as SourceProblem[], conflict: outcome.message as string | null, error: null as string | null, savedAt: null as string | null }, { status: 409 });
+}
+
+const AUTOSAVE_DELAY_MS = 2_000;
+
+export default function SheetEditor() {
+  const loaded = useLoaderData<typeof loader>();
+  const result = useActionData<typeof action>();
+  const navigation = useNavigation();
+  const autosave = useFetcher<typeof action>();
+  const [source, setSource] = useState(loaded.source);
+  const [dirty, setDirty] = useState(false);
+  const view = useRef<EditorView | null>(null);
+  const deferredSource = useDeferredValue(source);
+  const prepared = useMemo(() => prepareSheet(deferredSource, "sheet"), [deferredSource]);
+
+  // Keep the author's work: autosave a draft shortly after typing stops.
+  useEffect(() => {
+    if (!dirty) return;
+    const timer = setTimeout(() => {
+      autosave.submit({ intent: "autosave", source, baseRevisionId: loaded.base?.id ?? "" }, { method: "post" });
+      setDirty(false);
+    }, AUTOSAVE_DELAY_MS);
+    return () => clearTimeout(timer);
+  }, [source, dirty, autosave, loaded.base?.id]);
+
+  const edit = useCallback((next: string) => {
+    setSource(next);
+    setDirty(true);
+  }, []);
+
+  const onInputChange = useCallback(
+    (blockId: string, key: string, value: string) => {
+      if (!prepared.ok) return;
+      const block = prepared.blocks.find((b) => b.id === blockId);
+      if (!block) return;
+      try {
+        edit(setBlockInput(source, block, key, value));
+      } catch {
+        // A value the source cannot hold (e.g. a double quote) is simply not written back.
+      }
+    },
+    [prepared, source, edit],
+  );
+
+  const insertBlock = (calculatorId: string) => {
+    const existing = prepared.ok ? prepared.blocks.map((b) => b.id) : [];
+    const snippet = `\n${blockSnippet(calculatorId, nextBlockId(calculatorId, existing))}\n`;
+    const editor = view.current;
+    if (editor) {
+      const at = editor.state.selection.main.head;
+      editor.dispatch({ changes: { from: at, insert: snippet }, selection: { anchor: at + snippet.length } });
+      editor.focus();
+    } else {
+      edit(source + snippet);
+    }
+  };
+
+  const problems = result?.problems?.length ? result.problems : prepared.ok ? [] : prepared.problems;
+  const saving = navigation.state !== "idle" && navigation.formData?.get("intent") === "save";
+  const autosavedAt = autosave.data?.savedAt;
+
+  return (
+    <div className="space-y-4">
+      <nav aria-label="Breadcrumb" className="text-sm text-ink-faint">
+        <Link to="/sheets">Sheets</Link> <span aria-hidden="true">/</span> <Link to={`/sheets/${loaded.sheet.label}`}>{loaded.sheet.label}</Link>{" "}
+        <span aria-hidden="true">/</span> editor
+      </nav>
+      <header className="flex flex-col gap-2 sm:flex-row sm:items-end sm:justify-between">
+        <div>
+          <p className="eyebrow">
+            {loaded.sheet.label} · {loaded.base ? `new revision after ${loaded.base.label}` : "first revision"}
+          </p>
+          <h1 className="font-serif text-2xl font-semibold">{loaded.sheet.title}</h1>
+        </div>
+        <p className="text-xs text-ink-faint" role="status" aria-live="polite">
+          {autosave.state !== "idle" ? "Saving draft…" : autosavedAt ? `Draft kept at ${autosavedAt.slice(11, 19)} UTC` : dirty ? "Unsaved changes" : ""}
+        </p>
+      </header>
+
+      {loaded.draft ? (
+        <Notice tone="caution">
+          Restored your unsaved draft from {loaded.draft.updatedAt.slice(0, 16).replace("T", " ")} UTC.
+          {loaded.draft.staleBase ? " Someone has saved a newer revision since: compare before saving." : ""}{" "}
+          <Form method="post" className="inline">
+            <input type="hidden" name="intent" value="discard-draft" />
+            <button type="submit" className="underline">
+              Discard the draft
+            </button>
+          </Form>
+        </Notice>
+      ) : null}
+      {result?.conflict ? (
+        <div role="alert" className="rounded-md border border-[#e2b4b0] bg-danger-wash px-3 py-2 text-sm text-danger">
+          {result.conflict}{" "}
+          <Link to={`/sheets/${loaded.sheet.label}`} className="underline">
+            Open the latest revision
+          </Link>
+        </div>
+      ) : null}
+      <FormError message={result?.error ?? undefined} />
+
+      <div className="grid gap-4 lg:grid-cols-2">
+        <section aria-labelledby="source-heading" className="flex min-w-0 flex-col gap-3">
+          <div className="flex items-center justify-between">
+            <h2 id="source-heading" className="text-sm font-semibold">
+              Source
+            </h2>
+            <span className="text-xs text-ink-faint">{source.length.toLocaleString("en")} characters</span>
+          </div>
+          <div className="overflow-hidden rounded-md border border-rule-strong bg-white text-sm">
+            <CodeMirror
+              value={source}
+              onChange={edit}
+              extensions={[markdown()]}
+              indentWithTab={false}
+              basicSetup={{ foldGutter: false, highlightActiveLine: false }}
+              minHeight="28rem"
+              maxHeight="70vh"
+              aria-label="Sheet source (MDX)"
+              onCreateEditor={(editorView) => {
+                view.current = editorView;
+              }}
+            />
+          </div>
+          <details className="panel p-3" open>
+            <summary className="cursor-pointer text-sm font-semibold">Insert a calculator</summary>
+            <ul className="mt-2 grid gap-1 sm:grid-cols-2">
+              {loaded.palette.map((c) => (
+                <li key={c.id}>
+                  <button type="button" className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper" onClick={() => insertBlock(c.id)} title={c.summary}>
+                    <span className="font-medium">{c.title}</span>
+                    <span className="block text-xs text-ink-faint">{c.summary}</span>
+                  </button>
+                </li>
+              ))}
+            </ul>
+            <p className="mt-2 text-xs text-ink-faint">
+              Blocks are inserted at the cursor with every input at its default. <Link to="/calculators">What each calculator does</Link>
+            </p>
+          </details>
+          {problems.length > 0 ? (
+            <div role="alert" className="panel border-[#e2b4b0] p-3">
+              <h3 className="text-sm font-semibold text-danger">Problems in the source</h3>
+              <ul className="mt-1 space-y-1 text-sm">
+                {problems.map((p, i) => (
+                  <li key={i}>
+                    <span className="font-mono text-ink-faint">
+                      line {p.line}, column {p.column}:
+                    </span>{" "}
+                    {p.message}
+                  </li>
+                ))}
+              </ul>
+            </div>
+          ) : null}
+          <Form method="post" className="panel flex flex-col gap-3 p-3 sm:flex-row sm:items-end">
+            <input type="hidden" name="intent" value="save" />
+            <input type="hidden" name="source" value={source} />
+            <input type="hidden" name="baseRevisionId" value={loaded.base?.id ?? ""} />
+            <div className="flex-1">
+              <label htmlFor="revision-note" className="field-label">
+                What changed (revision note)
+              </label>
+              <input id="revision-note" name="note" className="field-input" placeholder="e.g. raised fsw to 20 kHz; re-sized C" />
+            </div>
+            <button type="submit" className="btn btn-primary" disabled={saving}>
+              {saving ? "Saving…" : loaded.base ? "Save as new revision" : "Save revision A"}
+            </button>
+          </Form>
+        </section>
+        <section aria-labelledby="preview-heading" className="min-w-0">
+          <h2 id="preview-heading" className="mb-3 text-sm font-semibold">
+            Live preview
+          </h2>
+          <div className="panel p-4 sm:p-6">
+            {prepared.ok ? (
+              <SheetView tree={prepared.tree} inputsById={Object.fromEntries(prepared.blocks.map((b) => [b.id, b.inputs]))} evaluation={prepared.evaluation} editable onInputChange={onInputChange} />
+            ) : (
+              <p className="text-sm text-ink-soft">The preview returns when the problems in the source are fixed.</p>
+            )}
+          </div>
+          <div className="mt-4">
+            <HardwareCaution compact />
+          </div>
+        </section>
+      </div>
+    </div>
+  );
+}
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/route-error";
