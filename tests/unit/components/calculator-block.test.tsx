@@ -1,0 +1,214 @@
+import { describe, expect, it } from "vitest";
+import { CalculatorBlock } from "~/components/calc/calculator-block";
+import { evaluateSheet, type BlockOutcome } from "~/lib/calc/evaluate-sheet";
+import { getCalculator } from "~/lib/calc/registry";
+import { attribute, controlLabelled, descriptionOf, labels, render, selectedOption, tagById, textOf } from "./markup";
+
+interface Block {
+  id: string;
+  calculator: string;
+  inputs: Record<string, string>;
+}
+
+/** Evaluates the blocks as a sheet and renders one of them, as the sheet page would. */
+function renderBlock(blocks: Block[], id: string, editable: boolean): string {
+  const evaluation = evaluateSheet(blocks);
+  const block = blocks.find((b) => b.id === id)!;
+  return render(<CalculatorBlock blockId={block.id} calculatorId={block.calculator} inputs={block.inputs} outcome={evaluation.blocks[id]} editable={editable} />);
+}
+
+const quasiSquare: Block = { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg", f: "50 Hz" } };
+
+describe("a quasi-square block, editable", () => {
+  const html = renderBlock([quasiSquare], "qs1", true);
+  const text = textOf(html);
+
+  it("is headed by its block id and calculator and says it computed", () => {
+    expect(text).toContain("qs1 · Quasi-square wave");
+    expect(text).toContain("Computed");
+  });
+
+  it("labels one field per input, showing what was typed and the unit a bare number is read in", () => {
+    const specs = getCalculator("quasi-square")!.inputs;
+    for (const spec of specs) expect(controlLabelled(html, spec.label), spec.label).toBeDefined();
+    const vdc = controlLabelled(html, "DC-link voltage")!;
+    expect(attribute(vdc, "value")).toBe("48 V");
+    expect(descriptionOf(html, vdc)).toBe("Unit: V");
+    // hmax was not typed: empty, with the engine's default shown as the placeholder.
+    const hmax = controlLabelled(html, specs.find((s) => s.key === "hmax")!.label)!;
+    expect(attribute(hmax, "value")).toBe("");
+    expect(attribute(hmax, "placeholder")).toBe("49");
+  });
+
+  it("shows the results in engineering notation beside their labels", () => {
+    // 48 V, α = 23°: V1 = 4·48/π·cos 23° = 56.3 V peak, 39.8 V RMS.
+    expect(text).toMatch(/Fundamental peak v1Peak 56\.3 V/);
+    expect(text).toMatch(/Fundamental RMS v1Rms 39\.8 V/);
+    expect(text).toMatch(/THD, all harmonics thd 29\.0 %/);
+    expect(text).toMatch(/α for least THD alphaMinThd 23\.2°/);
+  });
+
+  it("captions the waveform and the spectrum with their facts, and reserves their plot areas", () => {
+    expect(text).toContain("Output voltage, one cycle. Angle 0–360° against voltage; the output steps between -48.0 V, 0 V, 48.0 V.");
+    expect(text).toMatch(/Harmonic spectrum\. Each harmonic's amplitude in % of the fundamental, orders 3–49; the largest is order 7 at 14\.7 %\./);
+    expect(text).toContain("The fundamental (100 %) is left off the bars");
+    // Recharts draws after hydration: on the server each plot is an empty box of its final size.
+    expect(html.match(/data-plot-ready="false"/g)).toHaveLength(2);
+  });
+
+  it("folds the full harmonics list into a table with peak, RMS and percent", () => {
+    expect(html).toMatch(/<details[^>]*>\s*<summary[^>]*>Harmonics table/);
+    expect(text).toContain("n Frequency Peak RMS % of fundamental");
+    expect(text).toMatch(/7 350 Hz 8\.26 V 5\.84 V 14\.7 %/);
+  });
+
+  it("carries the lethal-voltage caution", () => {
+    expect(text).toContain("Lethal voltages.");
+  });
+});
+
+describe("an LC filter block", () => {
+  const html = renderBlock([{ id: "lc1", calculator: "lc-filter", inputs: { l: "2.2 mH", c: "10 uF", fsw: "20 kHz", rLoad: "10 ohm" } }], "lc1", true);
+  const text = textOf(html);
+
+  it("captions the Bode plot with the corner and the switching frequency it marks", () => {
+    // f0 = 1/(2π√(2.2 mH · 10 µF)) = 1.07 kHz; a 40 dB/decade roll-off gives about −51 dB at 20 kHz.
+    expect(text).toContain("Magnitude response. Gain in dB against frequency on a logarithmic axis");
+    expect(text).toContain("marked: the corner f0 = 1.07 kHz; the switching frequency fsw = 20.0 kHz, where the gain is -50.8 dB.");
+    expect(text).toMatch(/Corner frequency f0 1\.07 kHz/);
+    expect(html.match(/data-plot-ready="false"/g)).toHaveLength(1);
+  });
+
+  it("shows the filter's own caution about ringing", () => {
+    expect(text).toContain("A lightly loaded LC filter rings at f0");
+  });
+});
+
+describe("a block that fails", () => {
+  const blocks: Block[] = [quasiSquare, { id: "dc1", calculator: "dc-link", inputs: { p: "1.5 kg", vdc: "400 V", f: "-50 Hz", rippleVpp: "4 V" } }];
+  const html = renderBlock(blocks, "dc1", true);
+  const text = textOf(html);
+
+  it("puts each field error under the input it belongs to, tied with aria-describedby", () => {
+    const power = controlLabelled(html, "Output power")!;
+    expect(attribute(power, "value")).toBe("1.5 kg");
+    expect(attribute(power, "aria-invalid")).toBe("true");
+    expect(descriptionOf(html, power)).toMatch(/^Unit: W p must be a power; got 1\.5 kg/);
+
+    const frequency = controlLabelled(html, "Output frequency")!;
+    expect(attribute(frequency, "aria-invalid")).toBe("true");
+    expect(descriptionOf(html, frequency)).toMatch(/^Unit: Hz f must be/);
+    // The inputs that are fine carry no error.
+    const ripple = controlLabelled(html, "Allowed ripple")!;
+    expect(attribute(ripple, "aria-invalid")).toBeUndefined();
+    expect(descriptionOf(html, ripple)).toBe("Unit: V");
+  });
+
+  it("says inside the block that it did not compute, naming the fields, and shows no results", () => {
+    expect(text).toContain("2 problems");
+    expect(text).toContain("dc1 did not compute. Fix these inputs:");
+    expect(text).toMatch(/Output power \(p\): p must be a power/);
+    expect(text).toMatch(/Output frequency \(f\): f must be/);
+    expect(text).toContain("No results until the inputs are fixed.");
+    expect(html).not.toContain("data-plot-ready");
+  });
+
+  it("links each problem in the summary to its field", () => {
+    const label = labels(html).find((l) => l.text.startsWith("Output power"))!;
+    expect(html).toContain(`href="#${label.for}"`);
+  });
+
+  it("names a reference to a block that is not on the sheet, and leaves the other blocks computing", () => {
+    const sheet: Block[] = [quasiSquare, { id: "dc2", calculator: "dc-link", inputs: { p: "1 kW", vdc: "=qs9.v1Rms", rippleVpp: "4 V" } }];
+    const broken = textOf(renderBlock(sheet, "dc2", true));
+    expect(broken).toMatch(/DC-link voltage \(vdc\): there is no block "qs9" on this sheet/);
+    expect(textOf(renderBlock(sheet, "qs1", true))).toMatch(/Fundamental RMS v1Rms 39\.8 V/);
+  });
+});
+
+describe("a harmonic-limits block", () => {
+  it("over the IEEE 519 voltage limits: says Over in words, row by row, and names its source", () => {
+    const html = renderBlock(
+      [quasiSquare, { id: "hl1", calculator: "harmonic-limits", inputs: { standard: "ieee519-voltage", busVoltage: "480 V", spectrum: "=qs1.harmonics" } }],
+      "hl1",
+      true,
+    );
+    const text = textOf(html);
+    expect(text).toMatch(/Verdict \(estimate\): Over — 6 of 24 orders over the limit; THD over its limit\./);
+    expect(text).toContain("THD 27.9 % against a limit of 8.00 %.");
+    // Third harmonic of the 23° quasi-square wave is 13.0 % against the 5 % individual limit.
+    expect(text).toMatch(/3 13\.0 % 5\.00 % -7\.98 % Over/);
+    expect(text).toContain("Limits from IEEE Std 519, 2014, Table 1");
+    expect(text).toContain("Engineering estimate — compliance is established by accredited testing and the utility's interconnection rules.");
+    expect(text).not.toContain("Unverified");
+    // The verdict note is printed once, with the verdict, not again as a warning.
+    expect(text.split("Engineering estimate").length - 1).toBe(1);
+    expect(selectedOption(html, attribute(controlLabelled(html, "Limit table")!, "id")!)).toMatch(/IEEE Std 519-2014 Table 1/);
+  });
+
+  it("within limits of a table entered from memory: says Pass and flags it unverified", () => {
+    const html = renderBlock(
+      [{ id: "hl2", calculator: "harmonic-limits", inputs: { standard: "ieee1547", spectrum: '[{"n":3,"value":2}]' } }],
+      "hl2",
+      false,
+    );
+    const text = textOf(html);
+    expect(text).toMatch(/Verdict \(estimate\): Pass — the one order listed is within its limit; THD within its limit\./);
+    expect(text).toMatch(/3 2\.00 % 4\.00 % 2\.00 % Pass unverified/);
+    expect(text).toContain("Unverified: entered from memory");
+  });
+});
+
+describe("read-only", () => {
+  const html = renderBlock([quasiSquare], "qs1", false);
+  const text = textOf(html);
+
+  it("lists the inputs as text, with no form controls", () => {
+    expect(html).not.toMatch(/<(input|select|textarea)\b/);
+    expect(text).toMatch(/DC-link voltage vdc 48 V/);
+    expect(text).toMatch(/hmax 49 \(default\)/);
+    expect(text).toMatch(/Fundamental RMS v1Rms 39\.8 V/);
+  });
+
+  it("shows a referenced input with the value it resolved to", () => {
+    const blocks: Block[] = [quasiSquare, { id: "qs2", calculator: "quasi-square", inputs: { vdc: "=qs1.v1Peak", alpha: "30 deg" } }];
+    const readOnly = textOf(renderBlock(blocks, "qs2", false));
+    expect(readOnly).toMatch(/DC-link voltage vdc =qs1\.v1Peak → 56\.3 V/);
+  });
+});
+
+describe("edge cases", () => {
+  it("a block not yet evaluated says so instead of showing stale or empty results", () => {
+    const text = textOf(render(<CalculatorBlock blockId="qs1" calculatorId="quasi-square" inputs={{ vdc: "48 V" }} editable />));
+    expect(text).toContain("Not computed yet");
+    expect(text).toContain("Results appear once the sheet is computed.");
+  });
+
+  it("an unknown calculator is an error inside the block, not a crash", () => {
+    const outcome: BlockOutcome = { ok: false, calculator: "boost", errors: [{ field: "calculator", message: 'unknown calculator "boost"' }] };
+    const text = textOf(render(<CalculatorBlock blockId="b1" calculatorId="boost" inputs={{}} outcome={outcome} editable />));
+    expect(text).toContain("b1 · Unknown calculator");
+    expect(text).toContain('calculator: unknown calculator "boost"');
+    expect(text).toContain("1 problem");
+  });
+
+  it("a choice typed outside its options stays visible in the select", () => {
+    const html = renderBlock([{ id: "sp1", calculator: "spwm", inputs: { scheme: "tri-level" } }], "sp1", true);
+    const scheme = controlLabelled(html, getCalculator("spwm")!.inputs.find((s) => s.key === "scheme")!.label)!;
+    expect(selectedOption(html, attribute(scheme, "id")!)).toBe("tri-level");
+    expect(attribute(scheme, "aria-invalid")).toBe("true");
+  });
+
+  it("input ids are unique when two blocks share the page", () => {
+    const evaluation = evaluateSheet([quasiSquare, { ...quasiSquare, id: "qs2" }]);
+    const html = render(
+      <>
+        <CalculatorBlock blockId="qs1" calculatorId="quasi-square" inputs={quasiSquare.inputs} outcome={evaluation.blocks.qs1} editable />
+        <CalculatorBlock blockId="qs2" calculatorId="quasi-square" inputs={quasiSquare.inputs} outcome={evaluation.blocks.qs2} editable />
+      </>,
+    );
+    const ids = [...html.matchAll(/\sid="([^"]+)"/g)].map((m) => m[1]);
+    expect(new Set(ids).size).toBe(ids.length);
+    expect(tagById(html, labels(html)[0]!.for)).toBeDefined();
+  });
+});
