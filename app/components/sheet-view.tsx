@@ -94,11 +94,11 @@ function SheetCite({ sheet, rev }: { sheet?: unknown; rev?: unknown }) {
   const number = typeof sheet === "string" ? sheet : "";
   const revision = typeof rev === "string" ? rev : "";
   const label = `${number} rev ${revision}`;
-  if (!citations) return <span className="font-mono text-[0.9em]">{label}</span>;
+  if (!citations) return <span className="font-mono text-[0.9em] whitespace-nowrap">{label}</span>;
   const target = citations[`${number}@${revision}`];
   if (!target) {
     return (
-      <span className="inline-flex items-baseline gap-1 font-mono text-[0.9em]">
+      <span className="font-mono text-[0.9em] whitespace-nowrap">
         {label} <span className="font-sans text-xs text-danger">(not found)</span>
       </span>
     );
@@ -114,11 +114,18 @@ function SheetCite({ sheet, rev }: { sheet?: unknown; rev?: unknown }) {
   );
 }
 
+/** KaTeX's display wrapper scrolls sideways on a phone; a scrolling region must be reachable from the keyboard. */
+function SheetSpan(props: React.ComponentProps<"span">) {
+  const display = typeof props.className === "string" && props.className.split(" ").includes("katex-display");
+  return display ? <span {...props} tabIndex={0} /> : <span {...props} />;
+}
+
 // Built once: a new component type per render would remount every block and drop the focus of the field being typed in.
 const SHEET_COMPONENTS: Record<string, unknown> = {
   ...Object.fromEntries(calculatorIds().map((id) => [componentNameFor(id), blockComponent(id)])),
   Caution: SheetCaution,
   Cite: SheetCite,
+  span: SheetSpan,
 };
 
 /** Styles for the prose the author writes, on direct children only so they never reach inside a block. */

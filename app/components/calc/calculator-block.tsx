@@ -192,12 +192,11 @@ function InputField({ fieldId, spec, raw, error, resolved, onChange }: FieldProp
       </label>
       <div className="flex min-w-0 items-center gap-2">
         <div className="min-w-0 flex-1">{control}</div>
-        {hint ? (
-          <span id={hintId} className="w-14 shrink-0 font-mono text-xs text-ink-faint">
-            <span className="sr-only">Unit: </span>
-            {hint}
-          </span>
-        ) : null}
+        {/* The unit column is kept even when empty so the fields line up. */}
+        <span id={hint ? hintId : undefined} className="w-14 shrink-0 font-mono text-xs text-ink-faint">
+          {hint ? <span className="sr-only">Unit: </span> : null}
+          {hint}
+        </span>
       </div>
       {resolved ? (
         <p id={resolvedId} className="m-0 mt-1 font-mono text-xs text-ink-soft">
@@ -226,18 +225,13 @@ function ReadOnlyInputs({ calculator, inputs, outcome }: { calculator: Calculato
         const choice = spec.kind === "choice" ? spec.options.find((o) => o.value === (raw || spec.default)) : undefined;
         if (raw === "" && spec.optional && !error) return null;
         return (
-          <div key={spec.key} className="grid grid-cols-[minmax(0,1fr)_auto] gap-x-3 border-b border-rule/70 py-1.5 last:border-0">
-            <dt className="text-ink-soft" title={spec.description}>
+          <div key={spec.key} className="flex items-baseline justify-between gap-x-3 border-b border-rule/70 py-1.5 last:border-0">
+            <dt className="min-w-[40%] flex-1 text-ink-soft" title={spec.description}>
               {spec.label} <span className="font-mono text-xs text-ink-faint">{spec.key}</span>
             </dt>
-            <dd className="m-0 text-right font-mono">
-              {raw === "" ? (
-                <span className="text-ink-faint">{spec.default ? `${spec.default} (default)` : "—"}</span>
-              ) : choice ? (
-                <span className="font-sans">{choice.label}</span>
-              ) : (
-                raw
-              )}
+            <dd className="m-0 min-w-0 text-right font-mono [overflow-wrap:anywhere]">
+              {choice ? <span className="font-sans">{choice.label}</span> : raw === "" ? (spec.default ?? "—") : raw}
+              {raw === "" && spec.default ? <span className="font-sans text-ink-faint"> (default)</span> : null}
               {resolved ? <span className="block text-xs text-ink-soft"> → {resolved}</span> : null}
               {error ? (
                 <span className="mt-0.5 flex items-start gap-1 font-sans text-sm text-danger">

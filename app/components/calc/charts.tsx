@@ -73,6 +73,15 @@ export function ChartFigure({ title, summary, note, children }: ChartFigureProps
   );
 }
 
+/** A round axis bound a little above the peak, so ticks at ±bound/2 and ±bound read cleanly (48 V → 60 V). */
+function niceBound(peak: number): number {
+  if (!(peak > 0) || !Number.isFinite(peak)) return 1;
+  const target = peak * 1.08;
+  const decade = 10 ** Math.floor(Math.log10(target));
+  const step = [1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6, 8, 10].find((m) => m * decade >= target)!;
+  return step * decade;
+}
+
 /** Plain tick numbers; the axis label carries the unit. */
 function tickNumber(value: number): string {
   if (value === 0) return "0";
@@ -99,8 +108,7 @@ function lineShapeFor(points: readonly WaveformPoint[]): "linear" | "stepAfter" 
 }
 
 export function WaveformChart({ points, title = "Output voltage, one cycle" }: { points: readonly WaveformPoint[]; title?: string }) {
-  const peak = points.reduce((m, p) => Math.max(m, Math.abs(p.v)), 0);
-  const bound = peak > 0 ? peak * 1.15 : 1;
+  const bound = niceBound(points.reduce((m, p) => Math.max(m, Math.abs(p.v)), 0));
   const levels = stepLevels(points);
   const summary = levels
     ? `Angle 0–360° against voltage; the output steps between ${levels.map((v) => formatQuantity(v, "V")).join(", ")}.`
@@ -121,6 +129,7 @@ export function WaveformChart({ points, title = "Output voltage, one cycle" }: {
         <YAxis
           type="number"
           domain={[-bound, bound]}
+          ticks={[-bound, -bound / 2, 0, bound / 2, bound]}
           tickFormatter={tickNumber}
           tick={TICK}
           stroke={INK_FAINT}

@@ -15,7 +15,7 @@ export function HarmonicsTable({ harmonics, blockId }: { harmonics: readonly Har
       </summary>
       {/* Focusable so keyboard users can scroll it (a long list scrolls inside the block). */}
       <div className="max-h-72 overflow-auto border-t border-rule" tabIndex={0} role="region" aria-label={`Harmonics of ${blockId}`}>
-        <table className="w-full text-right text-sm tabular-nums">
+        <table className="w-full text-right text-sm whitespace-nowrap tabular-nums">
           <thead className="sticky top-0 bg-sheet text-xs text-ink-faint">
             <tr>
               <th scope="col" className="px-3 py-1.5 font-medium">n</th>

@@ -66,14 +66,14 @@ export function LimitsCheck({ blockId, rows, pass, source, thd, thdLimit }: Limi
 
       {rows.length > 0 ? (
         <div className="max-h-80 overflow-auto rounded-md border border-rule" tabIndex={0} role="region" aria-label={`Harmonic-by-harmonic limits of ${blockId}`}>
-          <table className="w-full text-right text-sm tabular-nums">
+          <table className="w-full text-right text-xs whitespace-nowrap tabular-nums sm:text-sm">
             <thead className="sticky top-0 bg-sheet text-xs text-ink-faint">
               <tr>
-                <th scope="col" className="px-3 py-1.5 font-medium">n</th>
-                <th scope="col" className="px-3 py-1.5 font-medium">Value</th>
-                <th scope="col" className="px-3 py-1.5 font-medium">Limit</th>
-                <th scope="col" className="px-3 py-1.5 font-medium">Margin</th>
-                <th scope="col" className="px-3 py-1.5 text-left font-medium">Verdict</th>
+                <th scope="col" className="px-2 py-1.5 font-medium sm:px-3">n</th>
+                <th scope="col" className="px-2 py-1.5 text-left font-medium sm:px-3">Verdict</th>
+                <th scope="col" className="px-2 py-1.5 font-medium sm:px-3">Value</th>
+                <th scope="col" className="px-2 py-1.5 font-medium sm:px-3">Limit</th>
+                <th scope="col" className="px-2 py-1.5 font-medium sm:px-3">Margin</th>
               </tr>
             </thead>
             <tbody>
@@ -81,14 +81,14 @@ export function LimitsCheck({ blockId, rows, pass, source, thd, thdLimit }: Limi
                 const unit = row.unit ?? "%";
                 return (
                   <tr key={row.n} className={`border-t border-rule/70 ${row.pass ? "" : "bg-danger-wash/60"}`}>
-                    <th scope="row" className="px-3 py-1 font-mono font-medium">{row.n}</th>
-                    <td className="px-3 py-1 font-mono">{formatQuantity(row.value, unit)}</td>
-                    <td className="px-3 py-1 font-mono">{formatQuantity(row.limit, unit)}</td>
-                    <td className="px-3 py-1 font-mono">{formatQuantity(row.margin, unit)}</td>
-                    <td className="px-3 py-1 text-left">
+                    <th scope="row" className="px-2 py-1 font-mono font-medium sm:px-3">{row.n}</th>
+                    <td className="px-2 py-1 text-left sm:px-3">
                       <Verdict pass={row.pass} />
                       {unverified ? <span className="ml-1 text-xs text-[#5e480a]"> unverified</span> : null}
                     </td>
+                    <td className="px-2 py-1 font-mono sm:px-3">{formatQuantity(row.value, unit)}</td>
+                    <td className="px-2 py-1 font-mono sm:px-3">{formatQuantity(row.limit, unit)}</td>
+                    <td className="px-2 py-1 font-mono sm:px-3">{formatQuantity(row.margin, unit)}</td>
                   </tr>
                 );
               })}

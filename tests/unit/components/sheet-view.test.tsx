@@ -22,6 +22,7 @@ function sheetTree(): Root {
       element("h2", {}, [text("Output stage")]),
       element("p", {}, [text("The fundamental is "), element("span", { className: ["math-inline"] }, [text("V_1 = \\frac{4 V_{dc}}{\\pi}\\cos\\alpha")]), text(".")]),
       element("QuasiSquare", { id: "qs1", vdc: "48 V", alpha: "23 deg" }),
+      element("div", { className: ["math-display"] }, [text("\\mathrm{THD} = \\frac{\\sqrt{V_{rms}^2 - V_{1,rms}^2}}{V_{1,rms}}")]),
       element("p", {}, [text("The DC link is sized in "), element("Cite", { sheet: "SW-0001", rev: "B" }), text(".")]),
       element("Caution", {}, [element("p", {}, [text("Discharge the DC link before touching the bridge.")])]),
       element("DcLink", { id: "dc1", p: "1.5 kg", vdc: "400 V", rippleVpp: "4 V" }),
@@ -51,6 +52,8 @@ describe("the sheet view", () => {
     expect(html).toContain('<span class="katex">');
     expect(html).toMatch(/<math xmlns="http:\/\/www.w3.org\/1998\/Math\/MathML">/);
     expect(html).toContain('<annotation encoding="application/x-tex">V_1 = \\frac{4 V_{dc}}{\\pi}\\cos\\alpha</annotation>');
+    // A display equation may scroll sideways on a phone, so it can take the keyboard focus.
+    expect(html).toMatch(/<span class="katex-display" tabindex="0">/);
     // KaTeX's inline styles survive as style attributes.
     expect(html).toMatch(/<span class="strut" style="height:[\d.]+em;?(vertical-align:-?[\d.]+em)?;?"><\/span>/);
   });
