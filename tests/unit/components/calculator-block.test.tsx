@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { CalculatorBlock } from "~/components/calc/calculator-block";
 import { evaluateSheet, type BlockOutcome } from "~/lib/calc/evaluate-sheet";
-import { getCalculator } from "~/lib/calc/registry";
+import { calculators, getCalculator } from "~/lib/calc/registry";
+import type { ScalarResult } from "~/lib/calc/types";
 import { attribute, controlLabelled, descriptionOf, labels, render, selectedOption, tagById, textOf } from "./markup";
 
 interface Block {
@@ -211,4 +212,29 @@ describe("edge cases", () => {
     expect(new Set(ids).size).toBe(ids.length);
     expect(tagById(html, labels(html)[0]!.for)).toBeDefined();
   });
+});
+
+describe("every calculator in the catalogue", () => {
+  // Inputs without a default get a typical value, so each calculator computes.
+  const typical: Record<string, Record<string, string>> = {
+    "lc-filter": { l: "2.2 mH", c: "10 uF", fsw: "20 kHz" },
+    "dc-link": { p: "1.5 kW", vdc: "400 V", rippleVpp: "8 V" },
+    "switch-stress": { vdc: "400 V", p: "3 kW", fsw: "20 kHz", rdsOn: "40 mohm", tr: "20 ns", tf: "20 ns", rthJa: "20 K/W", vRated: "650 V" },
+    "harmonic-limits": { busVoltage: "400 V", spectrum: '[{"n":3,"value":2}]' },
+    formula: { expr: "2 * 3" },
+  };
+  for (const calculator of calculators) {
+    it(`${calculator.id}: computes and shows every scalar result it returns`, () => {
+      const inputs = typical[calculator.id] ?? {};
+      const evaluation = evaluateSheet([{ id: "b1", calculator: calculator.id, inputs }]);
+      const outcome = evaluation.blocks.b1!;
+      expect(outcome.ok, JSON.stringify(!outcome.ok && outcome.errors)).toBe(true);
+      const text = textOf(render(<CalculatorBlock blockId="b1" calculatorId={calculator.id} inputs={inputs} outcome={outcome} editable />));
+      expect(text).toContain(`b1 · ${calculator.title} Computed`);
+      if (!outcome.ok) return;
+      for (const spec of calculator.outputs.filter((o) => o.kind === "scalar" && o.key in outcome.results)) {
+        expect(text, spec.key).toContain(`${spec.label} ${spec.key} ${(outcome.results[spec.key] as ScalarResult).display}`);
+      }
+    });
+  }
 });
