@@ -2,11 +2,15 @@ import { eq } from "drizzle-orm";
 import { readFile } from "node:fs/promises";
 import path from "node:path";
 import { z } from "zod";
+import type { Member, TeamMembership } from "./access";
 import { recordAudit } from "./audit";
 import { auth } from "./auth";
 import { db } from "./db/client";
 import { member, organization, user } from "./db/schema";
+import { loadDemoSheets, type DemoContent } from "./demo-sheets";
+import { createProject } from "./projects";
 import { ROLES } from "./roles";
+import { createSheet, saveRevision } from "./sheets";
 
 const demoTeam = z.object({
   team: z.object({ name: z.string(), slug: z.string() }),
@@ -19,14 +23,23 @@ export async function loadDemoTeam(contentDir = path.resolve("content")): Promis
   return demoTeam.parse(JSON.parse(await readFile(path.join(contentDir, "demo-team.json"), "utf8")));
 }
 
+export interface SeededSheets {
+  projects: number;
+  sheets: number;
+  revisions: number;
+}
+
 /**
- * Seeds the invented demo team on an empty database; does nothing when any user
- * exists, so it never touches a real team's data.
+ * Seeds the invented demo team, then its projects and calc sheets, on an empty
+ * database; does nothing when any user exists, so it never touches a real team's data.
+ * The sheets are read and checked before anything is written, so bad demo content
+ * stops the seed with nothing created.
  */
-export async function seedDemo(): Promise<{ seeded: boolean; demo: DemoTeam }> {
+export async function seedDemo(): Promise<{ seeded: boolean; demo: DemoTeam; content?: SeededSheets }> {
   const demo = await loadDemoTeam();
   const anyone = await db().select({ id: user.id }).from(user).limit(1);
   if (anyone.length > 0) return { seeded: false, demo };
+  const content = await loadDemoSheets(demo);
 
   const userIds: Record<string, string> = {};
   for (const person of demo.members) {
@@ -39,5 +52,60 @@ export async function seedDemo(): Promise<{ seeded: boolean; demo: DemoTeam }> {
     await db().insert(member).values({ id: crypto.randomUUID(), organizationId: team!.id, userId: userIds[person.email]!, role: person.role, createdAt: new Date() });
   }
   await recordAudit({ teamId: team!.id, actorId: null, action: "team.seeded", subjectType: "team", subjectId: team!.id, detail: { name: team!.name } });
-  return { seeded: true, demo };
+
+  const membership: Omit<TeamMembership, "role"> = { teamId: team!.id, teamName: team!.name, teamSlug: team!.slug };
+  const asMember = (email: string): Member => {
+    const person = demo.members.find((m) => m.email === email)!;
+    const team = { ...membership, role: person.role };
+    // The seed acts as each demo member would through the app; "session" is the closest kind of caller.
+    return { user: { id: userIds[email]!, name: person.name, email }, team, teams: [team], via: "session" };
+  };
+  const seeded = await seedDemoSheets(content, asMember, demo.members.find((m) => m.role === "admin")!.email);
+  return { seeded: true, demo, content: seeded };
+}
+
+/**
+ * Creates the demo projects (as the admin) and sheets (as each sheet's author)
+ * through the same server functions the pages use, so every revision is checked,
+ * evaluated, hashed and audited as a real save is. Stops at the first failure with
+ * a message naming the file: the demo is then incomplete and the database must be
+ * dropped and seeded again.
+ */
+async function seedDemoSheets(content: DemoContent, asMember: (email: string) => Member, adminEmail: string): Promise<SeededSheets> {
+  const stop = (what: string, reason: string): never => {
+    throw new Error(`[seed] stopped at ${what}: ${reason}
+The demo team and what came before were created, the rest was not: drop the database and seed again.`);
+  };
+  const projectIds = new Map<string, string>();
+  for (const input of content.projects) {
+    try {
+      const created = await createProject(asMember(adminEmail), input);
+      projectIds.set(created.code, created.id);
+    } catch (error) {
+      stop(`project ${input.code}`, error instanceof Error ? error.message : String(error));
+    }
+  }
+  let revisions = 0;
+  for (const entry of content.sheets) {
+    const author = asMember(entry.author);
+    const projectId = entry.projectCode === null ? null : projectIds.get(entry.projectCode)!;
+    let sheet: { id: string; latestRevisionId: string | null };
+    try {
+      sheet = await createSheet(author, { title: entry.title, projectId, tags: entry.tags });
+    } catch (error) {
+      return stop(`sheet "${entry.title}"`, error instanceof Error ? error.message : String(error));
+    }
+    for (const revision of entry.revisions) {
+      const saved = await saveRevision(author, sheet, { source: revision.source, baseRevisionId: sheet.latestRevisionId, note: revision.note }).catch((error: unknown) =>
+        stop(revision.file, error instanceof Error ? error.message : String(error)),
+      );
+      if (!saved.ok) {
+        stop(revision.file, saved.reason === "invalid" ? saved.problems.map((p) => `line ${p.line}, column ${p.column}: ${p.message}`).join("; ") : saved.message);
+      } else {
+        sheet = { id: sheet.id, latestRevisionId: saved.revisionId };
+        revisions++;
+      }
+    }
+  }
+  return { projects: content.projects.length, sheets: content.sheets.length, revisions };
 }
