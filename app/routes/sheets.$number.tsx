@@ -1,33 +1,77 @@
-import { Form, Link, useLoaderData } from "react-router";
+import type { Element, Root } from "hast";
+import { data, Form, Link, useActionData, useLoaderData } from "react-router";
+import { z } from "zod";
 import type { Route } from "./+types/sheets.$number";
 import { HardwareCaution } from "~/components/caution";
 import { EmptyState } from "~/components/empty-state";
+import { FormError, Notice } from "~/components/form-fields";
+import { PrintButton } from "~/components/print-button";
+import { ReviewPanel } from "~/components/review-panel";
 import { SheetView } from "~/components/sheet-view";
 import { StatusBadge } from "~/components/status-badge";
 import { TitleBlock } from "~/components/title-block";
+import { VerificationStamp } from "~/components/verification-stamp";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { shortHash } from "~/lib/sheets/integrity";
-import { requireMember } from "~/.server/access";
+import { requireMember, type Member } from "~/.server/access";
+import { roleAtLeast } from "~/.server/roles";
+import { addComment, checkIntegrity, eligibleCheckers, recordCheckValues, resolveComment, returnRevision, ReviewRuleError, revisionReview, sheetAudit, stampRevision, submitForCheck } from "~/.server/review";
 import { storedEvaluation } from "~/.server/sheet-view";
 import { getRevision, getRevisionById, getSheet, listRevisions, revisionBlocks } from "~/.server/sheets";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `${data.sheet.label} ${data.sheet.title} · Sinewright` : "Sheet · Sinewright" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+async function loadRevision(request: Request, params: { number: string; rev?: string }, me: Member) {
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
   if (!sheet) throw new Response(null, { status: 404 });
-  const revisions = await listRevisions(sheet.id);
   const revision = params.rev ? await getRevision(sheet.id, params.rev) : sheet.latestRevisionId ? await getRevisionById(sheet.latestRevisionId) : undefined;
   if (params.rev && !revision) throw new Response(null, { status: 404 });
-  const stored = revision ? storedEvaluation(revision.engineVersion, await revisionBlocks([revision.id])) : null;
+  return { sheet, revision };
+}
+
+/** Paragraphs and blocks a comment can be anchored to, in reading order. */
+function commentAnchors(tree: Root, blockIds: string[]): { value: string; label: string }[] {
+  const anchors = [{ value: "sheet", label: "The whole sheet" }, ...blockIds.map((id) => ({ value: `block:${id}`, label: `Block ${id}` }))];
+  let paragraph = 0;
+  for (const node of tree.children) {
+    if (node.type === "element" && node.tagName === "p") {
+      paragraph += 1;
+      anchors.push({ value: `paragraph:${paragraph}`, label: `Paragraph ${paragraph}: ${textOf(node).slice(0, 48)}…` });
+    }
+  }
+  return anchors;
+}
+
+function textOf(node: Element | Root): string {
+  return node.children.map((child) => (child.type === "text" ? child.value : child.type === "element" ? textOf(child) : "")).join("");
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const me = await requireMember(request, "viewer");
+  const { sheet, revision } = await loadRevision(request, params, me);
+  const revisions = await listRevisions(sheet.id);
+  const rows = revision ? await revisionBlocks([revision.id]) : [];
+  const stored = revision ? storedEvaluation(revision.engineVersion, rows) : null;
+  const review = revision ? await revisionReview(revision.id) : null;
+  const integrity = revision ? await checkIntegrity(revision, rows, review?.stamp?.contentHash ?? null) : null;
+  const isLatest = Boolean(revision && revision.id === sheet.latestRevisionId);
+  const isAuthor = Boolean(revision && revision.authorId === me.user.id);
+  const canWrite = roleAtLeast(me.team.role, "engineer");
+  const can = {
+    submit: Boolean(revision && isLatest && canWrite && (revision.state === "draft" || revision.state === "returned")),
+    comment: Boolean(revision && canWrite && revision.state !== "verified"),
+    check: Boolean(revision && isLatest && revision.state === "submitted" && roleAtLeast(me.team.role, "checker") && !isAuthor),
+    resolveAny: me.team.role === "admin",
+  };
   return {
     teamName: me.team.teamName,
-    canWrite: me.team.role !== "viewer",
+    me: { name: me.user.name },
+    canWrite,
     sheet: { id: sheet.id, label: sheet.label, title: sheet.title, tags: sheet.tags, projectCode: sheet.projectCode, projectName: sheet.projectName },
     revision: revision
       ? {
+          id: revision.id,
           label: revision.label,
           state: revision.state,
           note: revision.note,
@@ -35,20 +79,100 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           contentHash: revision.contentHash,
           authorName: revision.authorName,
           createdAt: revision.createdAt.toISOString(),
-          tree: revision.renderTree,
-          isLatest: revision.id === sheet.latestRevisionId,
+          tree: revision.renderTree as Root,
+          isLatest,
         }
       : null,
     stored,
+    integrity,
+    review: review
+      ? {
+          stamp: review.stamp ? { ...review.stamp, createdAt: review.stamp.createdAt.toISOString() } : null,
+          openRequest: review.openRequest ? { checkerName: review.openRequest.checkerName, createdAt: review.openRequest.createdAt.toISOString() } : null,
+          comments: review.comments.map((c) => ({ ...c, createdAt: c.createdAt.toISOString(), resolvedAt: c.resolvedAt?.toISOString() ?? null })),
+          checks: review.checks.map((c) => ({ ...c, createdAt: c.createdAt.toISOString(), inputs: c.inputs as Record<string, string>, comparison: c.comparison as never })),
+        }
+      : null,
+    can,
+    checkers: can.submit ? (await eligibleCheckers(me.team.teamId, revision?.authorId ?? null)).map((c) => ({ id: c.id, name: c.name, role: c.role })) : [],
+    anchors: revision ? commentAnchors(revision.renderTree as Root, rows.map((r) => r.blockId)) : [],
+    blocks: rows.map((r) => ({ id: r.blockId, calculator: r.calculator, inputs: r.inputs as Record<string, string> })),
+    audit: (await sheetAudit(sheet.id, 40)).map((e) => ({ id: e.id, action: e.action, detail: e.detail as Record<string, unknown>, createdAt: e.createdAt.toISOString(), actorName: e.actorName })),
     revisions: revisions.map((r) => ({ label: r.label, state: r.state, note: r.note, authorName: r.authorName, createdAt: r.createdAt.toISOString(), contentHash: r.contentHash })),
   };
 }
 
+const reviewAction = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("submit"), checkerId: z.string().min(1, "Choose a checker.") }),
+  z.object({
+    intent: z.literal("comment"),
+    anchor: z.string().regex(/^(sheet|block:[A-Za-z][A-Za-z0-9_]{0,31}|paragraph:\d{1,4})$/, "Choose what the comment is about."),
+    body: z.string().trim().min(1, "Write the comment.").max(4000, "Keep a comment under 4000 characters."),
+    parentId: z.string().optional(),
+  }),
+  z.object({ intent: z.literal("resolve"), commentId: z.string().min(1) }),
+  z.object({ intent: z.literal("return") }),
+  z.object({ intent: z.literal("stamp") }),
+  z.object({
+    intent: z.literal("check-values"),
+    blockId: z.string().min(1),
+    tolerancePercent: z.coerce.number({ message: "Give the tolerance as a number of percent, e.g. 1." }).positive("The tolerance must be above 0 %.").max(50, "Keep the tolerance at or below 50 %."),
+  }),
+]);
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const me = await requireMember(request, "engineer");
+  const { revision } = await loadRevision(request, params, me);
+  if (!revision) throw new Response("Save a revision before asking for a check.", { status: 400 });
+  const form = await request.formData();
+  const parsed = reviewAction.safeParse(Object.fromEntries([...form].filter(([k]) => !k.startsWith("input."))));
+  if (!parsed.success) return data({ ok: false, message: parsed.error.issues[0]?.message ?? "The form was incomplete." }, { status: 400 });
+  const input = parsed.data;
+  try {
+    switch (input.intent) {
+      case "submit":
+        await submitForCheck(me, revision.id, input.checkerId);
+        return { ok: true, message: `Revision ${revision.label} is sent for checking; the checker has been told.` };
+      case "comment":
+        await addComment(me, revision.id, { anchor: input.anchor, body: input.body, parentId: input.parentId || undefined });
+        return { ok: true, message: "Comment added." };
+      case "resolve":
+        await resolveComment(me, input.commentId);
+        return { ok: true, message: "Thread resolved." };
+      case "return":
+        await returnRevision(me, revision.id);
+        return { ok: true, message: `Revision ${revision.label} is returned to its author with your comments.` };
+      case "stamp":
+        await stampRevision(me, revision.id);
+        return { ok: true, message: `Revision ${revision.label} is verified and stamped.` };
+      case "check-values": {
+        const inputs = Object.fromEntries([...form].filter(([k]) => k.startsWith("input.")).map(([k, v]) => [k.slice(6), String(v)]));
+        const outcome = await recordCheckValues(me, revision.id, { blockId: input.blockId, inputs, tolerance: input.tolerancePercent / 100 });
+        return { ok: true, message: outcome.agrees ? `Your re-run of ${input.blockId} agrees with the author's results.` : `Your re-run of ${input.blockId} differs from the author's results beyond the tolerance: see the table.` };
+      }
+    }
+  } catch (error) {
+    if (error instanceof ReviewRuleError) return data({ ok: false, message: error.message }, { status: error.status });
+    throw error;
+  }
+}
+
 export default function SheetPage() {
-  const { teamName, canWrite, sheet, revision, stored, revisions } = useLoaderData<typeof loader>();
+  const { teamName, me, canWrite, sheet, revision, stored, revisions, integrity, review, can, checkers, anchors, blocks, audit } = useLoaderData<typeof loader>();
+  const result = useActionData<typeof action>();
   const projectLabel = sheet.projectCode ? `${sheet.projectCode} — ${sheet.projectName}` : "Team library";
+  const stampValid = Boolean(review?.stamp && integrity?.stampValid);
   return (
-    <div className="space-y-6">
+    <div className="sheet-page space-y-6">
+      {revision ? (
+        <div className="print-running-head" aria-hidden="true">
+          <span>{teamName}</span>
+          <span>
+            {sheet.label} rev {revision.label} — {sheet.title}
+          </span>
+          <span>#{shortHash(revision.contentHash)}</span>
+        </div>
+      ) : null}
       <nav aria-label="Breadcrumb" className="text-sm text-ink-faint">
         <Link to="/sheets">Sheets</Link> <span aria-hidden="true">/</span>{" "}
         {sheet.projectCode ? (
@@ -72,7 +196,33 @@ export default function SheetPage() {
           contentHash: revision ? shortHash(revision.contentHash) : undefined,
         }}
       />
-      <div className="flex flex-wrap items-center gap-2">
+      {integrity && !integrity.hashMatches ? (
+        <div role="alert" className="rounded-md border-2 border-danger bg-danger-wash p-4 text-danger">
+          <p className="text-lg font-bold">Integrity check failed — this revision's stored content no longer matches its hash.</p>
+          <p className="mt-1 text-sm">
+            Stored hash {shortHash(revision!.contentHash)}, content now hashes to {shortHash(integrity.recomputedHash)}. The data was changed outside
+            Sinewright; {review?.stamp ? "the verification stamp is void and must not be relied on." : "do not rely on it."} Tell your admin.
+          </p>
+        </div>
+      ) : null}
+      {integrity && integrity.drift.length > 0 ? (
+        <div role="alert" className="rounded-md border border-[#e3cf8f] bg-waiting-wash p-4 text-[#5e480a]">
+          <p className="font-semibold">Needs a re-check: the current engine ({integrity.engineVersion}) computes different results from the stored ones.</p>
+          <ul className="mt-2 list-disc pl-5 text-sm">
+            {integrity.drift.map((d) => (
+              <li key={`${d.blockId}.${d.key}`}>
+                <span className="font-mono">
+                  {d.blockId}.{d.key}
+                </span>
+                : stored {d.stored}, now {d.now}
+              </li>
+            ))}
+          </ul>
+        </div>
+      ) : null}
+      {result ? (result.ok ? <Notice tone="success">{result.message}</Notice> : <FormError message={result.message} />) : null}
+      <div className="flex flex-wrap items-start justify-between gap-4">
+      <div className="flex flex-wrap items-center gap-2 print:hidden">
         {canWrite ? (
           <Link className="btn btn-primary" to={`/sheets/${sheet.label}/edit`}>
             {revision ? "Edit — new revision" : "Start writing"}
@@ -91,6 +241,11 @@ export default function SheetPage() {
             </Link>
           </p>
         ) : null}
+        {revision ? <PrintButton /> : null}
+      </div>
+      {review?.stamp ? (
+        <VerificationStamp checkerName={review.stamp.checkerName ?? "—"} date={review.stamp.createdAt.slice(0, 10)} contentHash={review.stamp.contentHash} engineVersion={review.stamp.engineVersion} valid={stampValid} />
+      ) : null}
       </div>
       {sheet.tags.length > 0 ? <p className="text-sm text-ink-faint">Tags: {sheet.tags.join(", ")}</p> : null}
       <HardwareCaution compact />
@@ -101,8 +256,23 @@ export default function SheetPage() {
       ) : (
         <EmptyState title="Nothing saved yet">This sheet has no saved revision. {canWrite ? "Open the editor to write it." : "Its author has not saved it yet."}</EmptyState>
       )}
+      {revision && review ? (
+        <ReviewPanel
+          revisionLabel={revision.label}
+          state={revision.state}
+          isLatest={revision.isLatest}
+          can={can}
+          myName={me.name}
+          checkers={checkers}
+          openRequest={review.openRequest}
+          comments={review.comments}
+          checks={review.checks}
+          anchors={anchors}
+          blocks={blocks}
+        />
+      ) : null}
       {revisions.length > 0 ? (
-        <section aria-labelledby="history-heading" className="panel p-5">
+        <section aria-labelledby="history-heading" className="panel p-5 print:hidden">
           <h2 id="history-heading" className="font-semibold">
             Revision history
           </h2>
@@ -150,8 +320,55 @@ export default function SheetPage() {
           ) : null}
         </section>
       ) : null}
+      {audit.length > 0 ? (
+        <section aria-labelledby="audit-heading" className="panel p-5 print:hidden">
+          <h2 id="audit-heading" className="font-semibold">
+            Audit trail
+          </h2>
+          <ol className="mt-3 space-y-1.5 text-sm">
+            {audit.map((e) => (
+              <li key={e.id} className="flex flex-col gap-0.5 sm:flex-row sm:gap-3">
+                <time className="w-36 shrink-0 font-mono text-xs text-ink-faint" dateTime={e.createdAt}>
+                  {e.createdAt.slice(0, 16).replace("T", " ")}
+                </time>
+                <span>
+                  <strong className="font-medium">{e.actorName ?? "Sinewright"}</strong> {describeAudit(e.action, e.detail)}
+                </span>
+              </li>
+            ))}
+          </ol>
+        </section>
+      ) : null}
     </div>
   );
+}
+
+function describeAudit(action: string, detail: Record<string, unknown>): string {
+  const rev = detail.label ? ` revision ${String(detail.label)}` : "";
+  switch (action) {
+    case "sheet.created":
+      return `created the sheet (${String(detail.number ?? "")})`;
+    case "revision.saved":
+      return `saved${rev} (hash ${String(detail.contentHash ?? "").slice(0, 12)})`;
+    case "revision.submitted":
+      return `sent${rev} for checking to ${String(detail.checker ?? "a checker")}`;
+    case "comment.added":
+      return `commented on${rev} (${String(detail.anchor ?? "")})`;
+    case "comment.replied":
+      return `replied on${rev}`;
+    case "comment.resolved":
+      return `resolved a comment thread`;
+    case "check.values-recorded":
+      return `re-ran ${String(detail.blockId)} on${rev}: ${detail.agrees ? "agrees" : "differs"}`;
+    case "revision.returned":
+      return `returned${rev} with comments`;
+    case "revision.verified":
+      return `verified and stamped${rev}`;
+    case "sheet.details-changed":
+      return "changed the sheet's details";
+    default:
+      return action;
+  }
 }
 
 export { RouteErrorBoundary as ErrorBoundary } from "~/components/route-error";

@@ -1,4 +1,4 @@
-import { boolean, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
+import { boolean, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { organization, user } from "./auth-schema";
 import { createdAt, id } from "./columns";
@@ -175,4 +175,105 @@ export const sheetDraft = pgTable(
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [uniqueIndex("sheet_draft_sheet_author_idx").on(t.sheetId, t.authorId)],
+);
+
+/** Who a revision was sent to for checking, and when; one row per submission. */
+export const checkRequest = pgTable(
+  "check_request",
+  {
+    id: id(),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => sheetRevision.id, { onDelete: "restrict" }),
+    sheetId: text("sheet_id").notNull(),
+    teamId: text("team_id").notNull(),
+    requestedBy: text("requested_by").references(() => user.id, { onDelete: "set null" }),
+    checkerId: text("checker_id").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    /** "open" until the checker verifies or returns the revision. */
+    outcome: text("outcome").notNull().default("open"),
+    closedAt: timestamp("closed_at", { withTimezone: true }),
+  },
+  (t) => [index("check_request_checker_idx").on(t.checkerId, t.outcome), index("check_request_revision_idx").on(t.revisionId)],
+);
+
+/** Review comments on a revision, anchored to a block or a paragraph, threaded by parentId. */
+export const reviewComment = pgTable(
+  "review_comment",
+  {
+    id: id(),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => sheetRevision.id, { onDelete: "restrict" }),
+    sheetId: text("sheet_id").notNull(),
+    teamId: text("team_id").notNull(),
+    /** "block:qs1", "paragraph:3" or "sheet". */
+    anchor: text("anchor").notNull(),
+    parentId: text("parent_id"),
+    authorId: text("author_id").references(() => user.id, { onDelete: "set null" }),
+    body: text("body").notNull(),
+    resolvedAt: timestamp("resolved_at", { withTimezone: true }),
+    resolvedBy: text("resolved_by").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("review_comment_revision_idx").on(t.revisionId, t.createdAt), index("review_comment_sheet_idx").on(t.sheetId)],
+);
+
+/** A checker's independent re-run of one block with their own inputs, and whether it agrees. */
+export const checkValue = pgTable(
+  "check_value",
+  {
+    id: id(),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => sheetRevision.id, { onDelete: "restrict" }),
+    teamId: text("team_id").notNull(),
+    blockId: text("block_id").notNull(),
+    checkerId: text("checker_id").references(() => user.id, { onDelete: "set null" }),
+    inputs: jsonb("inputs").notNull(),
+    results: jsonb("results"),
+    /** Relative tolerance the checker accepted, e.g. 0.01 for 1 %. */
+    tolerance: doublePrecision("tolerance").notNull(),
+    agrees: boolean("agrees").notNull(),
+    /** Per output: the author's value, the checker's, and the relative difference. */
+    comparison: jsonb("comparison").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("check_value_revision_idx").on(t.revisionId)],
+);
+
+/** The verification stamp: bound to the revision's content hash and engine version. One per revision. */
+export const stamp = pgTable(
+  "stamp",
+  {
+    id: id(),
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => sheetRevision.id, { onDelete: "restrict" }),
+    sheetId: text("sheet_id").notNull(),
+    teamId: text("team_id").notNull(),
+    checkerId: text("checker_id").references(() => user.id, { onDelete: "set null" }),
+    contentHash: text("content_hash").notNull(),
+    engineVersion: text("engine_version").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("stamp_revision_idx").on(t.revisionId)],
+);
+
+/** The in-app list of things that happened to a member's work. */
+export const notification = pgTable(
+  "notification",
+  {
+    id: id(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    teamId: text("team_id").notNull(),
+    kind: text("kind").notNull(),
+    message: text("message").notNull(),
+    link: text("link").notNull(),
+    readAt: timestamp("read_at", { withTimezone: true }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("notification_user_idx").on(t.userId, t.createdAt)],
 );
