@@ -24,6 +24,7 @@ export default [
     route("projects", "routes/projects.tsx"),
     route("projects/:code", "routes/projects.$code.tsx"),
     route("search", "routes/search.tsx"),
+    route("desk", "routes/desk.tsx"),
     route("team", "routes/team.tsx"),
     route("settings", "routes/settings.tsx"),
     route("calculators", "routes/calculators.tsx"),

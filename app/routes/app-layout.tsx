@@ -2,6 +2,7 @@ import { Form, NavLink, Outlet, redirect, useLoaderData } from "react-router";
 import type { Route } from "./+types/app-layout";
 import { Wordmark } from "~/components/brand-mark";
 import { getSignedIn, membershipsOf } from "~/.server/access";
+import { unreadCount } from "~/.server/review";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const signedIn = await getSignedIn(request);
@@ -10,10 +11,11 @@ export async function loader({ request }: Route.LoaderArgs) {
   const teams = await membershipsOf(signedIn.user.id);
   const team = teams.find((t) => t.teamId === signedIn.activeTeamId) ?? teams[0] ?? null;
   if (!team && url.pathname !== "/teams/new") throw redirect("/teams/new");
-  return { user: signedIn.user, team, teams };
+  return { user: signedIn.user, team, teams, unread: team ? await unreadCount(signedIn.user.id, team.teamId) : 0 };
 }
 
 const NAV = [
+  { to: "/desk", label: "Desk" },
   { to: "/sheets", label: "Sheets" },
   { to: "/projects", label: "Projects" },
   { to: "/search", label: "Search" },
@@ -22,7 +24,7 @@ const NAV = [
 ];
 
 export default function AppLayout() {
-  const { user, team, teams } = useLoaderData<typeof loader>();
+  const { user, team, teams, unread } = useLoaderData<typeof loader>();
   return (
     <div className="min-h-screen">
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-3 focus:top-3 focus:z-10 focus:rounded focus:bg-sheet focus:px-3 focus:py-2">
@@ -44,6 +46,7 @@ export default function AppLayout() {
                     }
                   >
                     {item.label}
+                    {item.to === "/desk" && unread > 0 ? <span className="ml-1 rounded-full bg-copper px-1.5 text-xs font-semibold text-white">{unread}<span className="sr-only"> new notices</span></span> : null}
                   </NavLink>
                 </li>
               ))}
@@ -109,6 +112,7 @@ export default function AppLayout() {
                   }
                 >
                   {item.label}
+                  {item.to === "/desk" && unread > 0 ? <span className="ml-1 rounded-full bg-copper px-1.5 text-xs font-semibold text-white">{unread}<span className="sr-only"> new notices</span></span> : null}
                 </NavLink>
               </li>
             ))}
