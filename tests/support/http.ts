@@ -71,3 +71,23 @@ export async function signUpWithTeam(label: string) {
   if (response.status !== 302) throw new Error(`creating a team answered ${response.status}`);
   return account;
 }
+
+/**
+ * A team with one signed-in visitor per role, made quickly: the admin starts the
+ * team through the page, the others sign up and are added as members directly.
+ */
+export async function teamWithRoles(label: string, roles: string[]) {
+  const { serverQuery } = await import("./server-db");
+  const admin = await signUpWithTeam(label);
+  const [team] = await serverQuery<{ id: string }>(`select id from organization where name = $1`, [`Team ${label}`]);
+  const people: Record<string, { visitor: Visitor; email: string; userId: string }> = {};
+  const [adminRow] = await serverQuery<{ id: string }>(`select id from "user" where email = $1`, [admin.email]);
+  people.admin = { visitor: admin.visitor, email: admin.email, userId: adminRow!.id };
+  for (const role of roles) {
+    const account = await signUp(`${label}-${role}`);
+    const [row] = await serverQuery<{ id: string }>(`select id from "user" where email = $1`, [account.email]);
+    await serverQuery(`insert into member (id, organization_id, user_id, role, created_at) values ($1, $2, $3, $4, now())`, [crypto.randomUUID(), team!.id, row!.id, role.replace(/\d+$/, "")]);
+    people[role] = { visitor: account.visitor, email: account.email, userId: row!.id };
+  }
+  return { teamId: team!.id, teamName: `Team ${label}`, people };
+}
