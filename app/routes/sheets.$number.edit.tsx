@@ -218,7 +218,7 @@ export default function SheetEditor() {
                 {problems.map((p, i) => (
                   <li key={i}>
                     <span className="font-mono text-ink-faint">
-                      line {p.line}, column {p.column}:
+                      {`line ${p.line}, column ${p.column}:`}
                     </span>{" "}
                     {p.message}
                   </li>

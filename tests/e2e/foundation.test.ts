@@ -54,8 +54,9 @@ describe("the foundation in a real browser", () => {
     try {
       const { page } = session;
       await signInThroughPage(page, "engineer@example.com");
+      await page.waitForLoadState("networkidle");
       await page.keyboard.press("Tab");
-      expect(await page.evaluate(() => document.activeElement?.textContent)).toBe("Skip to content");
+      expect(await page.evaluate(() => document.activeElement?.getAttribute("href"))).toBe("#main");
       await page.keyboard.press("Enter");
       expect(await page.evaluate(() => location.hash)).toBe("#main");
       await page.locator("summary", { hasText: "Account menu for Tomás Okafor" }).focus();

@@ -57,6 +57,7 @@ describe("writing a calc sheet in the browser", () => {
     await qs1.getByLabel(/DC-link voltage/).fill("48 V");
     await lc1.getByLabel(/Inductance/).fill("1 mH");
     await lc1.getByLabel(/Capacitance/).fill("10 uF");
+    await lc1.getByLabel(/Switching frequency/).fill("20 kHz");
     await lc1.getByLabel(/Output voltage/).fill("=qs1.v1Rms");
 
     const at23 = expected("23 deg");

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { teamWithRoles, type Visitor } from "../support/http";
+import { pageText, teamWithRoles, type Visitor } from "../support/http";
 import { waitForMail } from "../support/mail";
 import { serverQuery } from "../support/server-db";
 
@@ -35,7 +35,7 @@ describe("peer check", () => {
     expect(submit.status).toBe(200);
     expect(await submit.text()).toContain("is sent for checking");
     await waitForMail(checker.email, /Check requested: .* rev A/);
-    expect(await (await checker.visitor.get("/desk")).text()).toContain(`${label} rev A`);
+    expect(await pageText(await checker.visitor.get("/desk"))).toContain(`${label} rev A`);
 
     // Returning needs a comment first.
     const bare = await checker.visitor.postForm(`/sheets/${label}`, { intent: "return" });

@@ -51,6 +51,11 @@ export class Visitor {
   }
 }
 
+/** The page's HTML without React's text-node separators, so "CS-0001 rev A" reads as written. */
+export async function pageText(response: Response): Promise<string> {
+  return (await response.text()).replaceAll("<!-- -->", "");
+}
+
 export function uniqueEmail(label: string): string {
   return `${label}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 7)}@example.org`;
 }

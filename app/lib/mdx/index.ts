@@ -307,8 +307,9 @@ export function nextBlockId(calculatorId: string, existingIds: string[]): string
 export function blockSnippet(calculatorId: string, id: string): string {
   const calculator = getCalculator(calculatorId);
   if (!calculator) throw new Error(`unknown calculator ${calculatorId}`);
+  // Required inputs without a default appear empty, so the block asks for them by name.
   const attributes = calculator.inputs
-    .filter((input) => input.default !== undefined && !input.default.includes('"'))
-    .map((input) => `${input.key}="${input.default}"`);
+    .filter((input) => (input.default !== undefined && !input.default.includes('"')) || !input.optional)
+    .map((input) => `${input.key}="${input.default ?? ""}"`);
   return `<${componentNameOf(calculatorId)} id="${id}" ${attributes.join(" ")} />`;
 }
