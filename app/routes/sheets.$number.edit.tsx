@@ -1,5 +1,5 @@
 import { markdown } from "@codemirror/lang-markdown";
-import type { EditorView } from "@codemirror/view";
+import { EditorView } from "@codemirror/view";
 import CodeMirror from "@uiw/react-codemirror";
 import { useCallback, useDeferredValue, useEffect, useMemo, useRef, useState } from "react";
 import { data, Form, Link, redirect, useActionData, useFetcher, useLoaderData, useNavigation } from "react-router";
@@ -74,6 +74,8 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 const AUTOSAVE_DELAY_MS = 2_000;
+// The editable area itself carries the name and an explicit tab stop, for screen readers and keyboard users.
+const EDITOR_EXTENSIONS = [markdown(), EditorView.contentAttributes.of({ "aria-label": "Sheet source (MDX)", tabindex: "0" }), EditorView.lineWrapping];
 
 export default function SheetEditor() {
   const loaded = useLoaderData<typeof loader>();
@@ -184,12 +186,11 @@ export default function SheetEditor() {
             <CodeMirror
               value={source}
               onChange={edit}
-              extensions={[markdown()]}
+              extensions={EDITOR_EXTENSIONS}
               indentWithTab={false}
               basicSetup={{ foldGutter: false, highlightActiveLine: false }}
               minHeight="28rem"
               maxHeight="70vh"
-              aria-label="Sheet source (MDX)"
               onCreateEditor={(editorView) => {
                 view.current = editorView;
               }}
