@@ -16,6 +16,14 @@ const revisionEntry = z.object({
   /** Relative to content/, e.g. "sheets/pump-dc-link-a.mdx". */
   file: z.string().regex(/^sheets\/[a-z0-9][a-z0-9-]*\.mdx$/, "a file under sheets/, e.g. sheets/pump-dc-link-a.mdx"),
   note: z.string().trim().min(1).max(500),
+  /** What happened to the revision in the check, so the demo shows every state. */
+  review: z
+    .object({
+      checker: z.email(),
+      outcome: z.enum(["submitted", "returned", "verified"]),
+      comments: z.array(z.object({ anchor: z.string(), body: z.string().min(1) })).default([]),
+    })
+    .optional(),
 });
 
 const sheetEntry = z.object({
@@ -53,6 +61,7 @@ export interface DemoRevision {
   file: string;
   note: string;
   source: string;
+  review?: z.infer<typeof revisionEntry>["review"];
 }
 
 export interface DemoSheet {
@@ -125,7 +134,11 @@ export async function loadDemoSheets(demo: DemoTeam, contentDir = path.resolve("
         continue;
       }
       problems.push(...sourceProblems(revision.file, source));
-      revisions.push({ file: revision.file, note: revision.note, source });
+      const checkerRole = demo.members.find((m) => m.email === revision.review?.checker)?.role;
+      if (revision.review && (revision.review.checker === entry.author || (checkerRole !== "checker" && checkerRole !== "admin"))) {
+        problems.push(`${manifestFile}: "${entry.title}": ${revision.review.checker} cannot check it (a checker or admin other than the author)`);
+      }
+      revisions.push({ file: revision.file, note: revision.note, source, review: revision.review });
     }
     sheets.push({ title: entry.title, projectCode: entry.project?.toUpperCase() ?? null, tags: [...new Set(entry.tags)], author: entry.author, revisions });
   }

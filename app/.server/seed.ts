@@ -10,6 +10,7 @@ import { member, organization, user } from "./db/schema";
 import { loadDemoSheets, type DemoContent } from "./demo-sheets";
 import { createProject } from "./projects";
 import { ROLES } from "./roles";
+import { addComment, returnRevision, stampRevision, submitForCheck } from "./review";
 import { createSheet, saveRevision } from "./sheets";
 
 const demoTeam = z.object({
@@ -104,6 +105,14 @@ The demo team and what came before were created, the rest was not: drop the data
       } else {
         sheet = { id: sheet.id, latestRevisionId: saved.revisionId };
         revisions++;
+        if (revision.review) {
+          const { checker, outcome, comments } = revision.review;
+          const reviewer = asMember(checker);
+          await submitForCheck(author, saved.revisionId, reviewer.user.id);
+          for (const comment of comments) await addComment(reviewer, saved.revisionId, comment);
+          if (outcome === "returned") await returnRevision(reviewer, saved.revisionId);
+          if (outcome === "verified") await stampRevision(reviewer, saved.revisionId);
+        }
       }
     }
   }
