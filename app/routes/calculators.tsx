@@ -6,6 +6,7 @@ import { PageHeader } from "~/components/empty-state";
 import { catalogue } from "~/lib/calc/registry";
 import type { InputSpec } from "~/lib/calc/types";
 import { describeRange } from "~/lib/calc/units";
+import { blockSnippet, componentNameOf, nextBlockId } from "~/lib/mdx";
 import { requireMember } from "~/.server/access";
 
 export const meta: Route.MetaFunction = () => [{ title: "Calculators · Sinewright" }];
@@ -33,6 +34,8 @@ export async function loader({ request }: Route.LoaderArgs) {
     engineVersion,
     calculators: calculators.map((c) => ({
       ...c,
+      component: componentNameOf(c.id),
+      snippet: blockSnippet(c.id, nextBlockId(c.id, [])),
       inputs: c.inputs.map((i) => ({ key: i.key, label: i.label, description: i.description, optional: Boolean(i.optional), ...inputSummary(i) })),
       formulas: c.formulas.map((f) => ({ label: f.label, html: katex.renderToString(f.latex, { displayMode: true, throwOnError: false, output: "htmlAndMathml" }) })),
     })),
@@ -82,6 +85,12 @@ export default function Calculators() {
             </h2>
             <p className="mt-1 text-ink-soft">{c.summary}</p>
             <p className="prose-sheet mt-3 max-w-3xl text-[15px]">{c.description}</p>
+            <h3 className="mt-6 font-semibold">In a calc sheet</h3>
+            <p className="mt-1 text-sm text-ink-soft">
+              Write it as <code className="font-mono">&lt;{c.component} /&gt;</code> with an <code>id</code> and any inputs as quoted strings; the editor's palette
+              inserts it with the defaults below.
+            </p>
+            <pre className="mt-2 overflow-x-auto rounded-md border border-rule bg-paper p-3 font-mono text-xs">{c.snippet}</pre>
 
             <h3 className="mt-6 font-semibold">Inputs</h3>
             <div className="mt-2 overflow-x-auto">
