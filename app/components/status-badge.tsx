@@ -10,7 +10,7 @@ const LOOK: Record<string, { label: string; className: string; mark: string }> =
 export function StatusBadge({ status }: { status: string }) {
   const look = LOOK[status] ?? LOOK.draft!;
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border px-2 py-0.5 text-xs font-medium ${look.className}`}>
+    <span className={`inline-flex w-fit items-center gap-1 self-start whitespace-nowrap rounded-full border px-2 py-0.5 text-xs font-medium ${look.className}`}>
       <span aria-hidden="true">{look.mark}</span>
       {look.label}
     </span>

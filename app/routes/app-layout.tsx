@@ -102,7 +102,7 @@ export default function AppLayout() {
           </div>
         </div>
         <nav aria-label="Main, compact" className="border-t border-rule md:hidden">
-          <ul className="flex gap-0.5 overflow-x-auto px-2 py-2">
+          <ul className="flex flex-wrap gap-0.5 px-2 py-2">
             {NAV.map((item) => (
               <li key={item.to}>
                 <NavLink

@@ -211,7 +211,7 @@ export default function Sheets() {
                     {new Date(row.updatedAt).toISOString().slice(0, 10)}
                     {row.authorName ? <span className="block text-xs text-ink-faint">{row.authorName}</span> : null}
                   </td>
-                  <td className="px-4 py-2.5 text-ink-soft">{row.projectCode ?? <span className="text-ink-faint">library</span>}</td>
+                  <td className="whitespace-nowrap px-4 py-2.5 text-ink-soft">{row.projectCode ?? <span className="text-ink-faint">library</span>}</td>
                   <td className="px-4 py-2.5 text-xs text-ink-soft">{row.calculators.join(", ")}</td>
                 </tr>
               ))}
