@@ -34,7 +34,7 @@ function findBinDir() {
 
 function ensureServerInstalled() {
   let bin = findBinDir();
-  if (bin) return bin;
+  if (bin) return ensureRum(bin);
   if (!isRoot) {
     throw new Error("PostgreSQL server binaries are missing. Install Debian's `postgresql` package (sudo apt-get install postgresql) or set DATABASE_URL.");
   }
@@ -48,6 +48,31 @@ function ensureServerInstalled() {
   spawnSync("sh", ["-c", "command -v pg_ctlcluster >/dev/null && pg_lsclusters -h | while read v c rest; do pg_ctlcluster $v $c stop; done"], { stdio: "ignore" });
   bin = findBinDir();
   if (!bin) throw new Error("PostgreSQL installed but pg_ctl was not found under /usr/lib/postgresql/*/bin.");
+  return ensureRum(bin);
+}
+
+/**
+ * Search ranks through the RUM index extension when it is there (see drizzle/0008_*).
+ * Debian's package must match the server's minor version, so both are installed together.
+ * Without root it only says so: search still works, ranking with ts_rank.
+ */
+function ensureRum(bin) {
+  const version = path.basename(path.dirname(bin));
+  if (existsSync(`/usr/share/postgresql/${version}/extension/rum.control`)) return bin;
+  if (!isRoot) {
+    log(`the rum extension is missing (sudo apt-get install postgresql-${version} postgresql-${version}-rum); search ranks without it`);
+    return bin;
+  }
+  log(`installing Debian's postgresql-${version}-rum for ranked search…`);
+  const install = () =>
+    spawnSync("apt-get", ["install", "-y", "--no-install-recommends", `postgresql-${version}`, `postgresql-${version}-rum`], {
+      stdio: "inherit",
+      env: { ...process.env, DEBIAN_FRONTEND: "noninteractive" },
+    }).status === 0;
+  if (!install()) {
+    spawnSync("apt-get", ["update"], { stdio: "inherit" });
+    if (!install()) log("could not install the rum extension; search ranks without it");
+  }
   return bin;
 }
 

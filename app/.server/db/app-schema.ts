@@ -1,4 +1,4 @@
-import { boolean, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
+import { boolean, customType, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { organization, user } from "./auth-schema";
 import { createdAt, id } from "./columns";
@@ -276,4 +276,56 @@ export const notification = pgTable(
     createdAt: createdAt(),
   },
   (t) => [index("notification_user_idx").on(t.userId, t.createdAt)],
+);
+
+const tsvector = customType<{ data: string }>({ dataType: () => "tsvector" });
+
+/**
+ * What search finds: one row per sheet (its latest revision) and, later, per project
+ * document (`kind`). The app writes the text columns in the same transaction as the
+ * change; the weighted tsvector follows from them (title A; tags, project and
+ * calculators B; prose C; block values D). Search always filters by team_id.
+ */
+export const searchDocument = pgTable(
+  "search_document",
+  {
+    /** The sheet's (or document's) own id, so a hit and a Meilisearch document point at it directly. */
+    id: text("id").primaryKey(),
+    /** "sheet" or "document". */
+    kind: text("kind").notNull(),
+    teamId: text("team_id")
+      .notNull()
+      .references(() => organization.id, { onDelete: "cascade" }),
+    sheetId: text("sheet_id").references(() => calcSheet.id, { onDelete: "cascade" }),
+    /** The sheet's (or document's) number in the team, e.g. 7 for CS-0007. */
+    number: integer("number").notNull(),
+    title: text("title").notNull(),
+    projectId: text("project_id"),
+    projectCode: text("project_code"),
+    tags: text("tags").array().notNull().default(sql`'{}'::text[]`),
+    calculators: text("calculators").array().notNull().default(sql`'{}'::text[]`),
+    /** People who wrote any revision, for the author filter. */
+    authorIds: text("author_ids").array().notNull().default(sql`'{}'::text[]`),
+    revisionId: text("revision_id"),
+    revisionLabel: text("revision_label"),
+    /** The latest revision's review state ("draft", "submitted", "returned", "verified"), or "unsaved". */
+    state: text("state").notNull(),
+    /** Tags, project code and name, calculator ids and titles, as one text. */
+    keywords: text("keywords").notNull(),
+    /** The prose of the latest revision as plain text. */
+    body: text("body").notNull(),
+    /** Each block's inputs and results, as typed and in normalised spellings ("20 kHz", "20khz", "20000 Hz"). */
+    blockValues: text("block_values").notNull(),
+    search: tsvector("search")
+      .notNull()
+      .generatedAlwaysAs(
+        sql`setweight(to_tsvector('sinewright'::regconfig, title), 'A') || setweight(to_tsvector('sinewright'::regconfig, keywords), 'B') || setweight(to_tsvector('sinewright'::regconfig, body), 'C') || setweight(to_tsvector('sinewright'::regconfig, block_values), 'D')`,
+      ),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull(),
+  },
+  (t) => [
+    index("search_document_search_idx").using("gin", t.search),
+    index("search_document_team_updated_idx").on(t.teamId, t.updatedAt),
+    uniqueIndex("search_document_sheet_idx").on(t.sheetId),
+  ],
 );
