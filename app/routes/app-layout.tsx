@@ -36,21 +36,7 @@ export default function AppLayout() {
             <Wordmark />
           </NavLink>
           <nav aria-label="Main" className="hidden md:block">
-            <ul className="flex items-center gap-1">
-              {NAV.map((item) => (
-                <li key={item.to}>
-                  <NavLink
-                    to={item.to}
-                    className={({ isActive }) =>
-                      `rounded-md px-3 py-1.5 text-sm no-underline ${isActive ? "bg-copper-wash font-semibold text-copper-deep" : "text-ink-soft hover:bg-paper hover:text-ink"}`
-                    }
-                  >
-                    {item.label}
-                    {item.to === "/desk" && unread > 0 ? <span className="ml-1 rounded-full bg-copper px-1.5 text-xs font-semibold text-white">{unread}<span className="sr-only"> new notices</span></span> : null}
-                  </NavLink>
-                </li>
-              ))}
-            </ul>
+            <NavItems unread={unread} listClassName="flex items-center gap-1" linkClassName="px-3 hover:bg-paper hover:text-ink" />
           </nav>
           <div className="ml-auto flex items-center gap-3">
             {team ? (
@@ -102,27 +88,39 @@ export default function AppLayout() {
           </div>
         </div>
         <nav aria-label="Main, compact" className="border-t border-rule md:hidden">
-          <ul className="flex flex-wrap gap-0.5 px-2 py-2">
-            {NAV.map((item) => (
-              <li key={item.to}>
-                <NavLink
-                  to={item.to}
-                  className={({ isActive }) =>
-                    `block whitespace-nowrap rounded-md px-2.5 py-1.5 text-sm no-underline ${isActive ? "bg-copper-wash font-semibold text-copper-deep" : "text-ink-soft"}`
-                  }
-                >
-                  {item.label}
-                  {item.to === "/desk" && unread > 0 ? <span className="ml-1 rounded-full bg-copper px-1.5 text-xs font-semibold text-white">{unread}<span className="sr-only"> new notices</span></span> : null}
-                </NavLink>
-              </li>
-            ))}
-          </ul>
+          <NavItems unread={unread} listClassName="flex flex-wrap gap-0.5 px-2 py-2" linkClassName="block whitespace-nowrap px-2.5" />
         </nav>
       </header>
       <main id="main" className="mx-auto max-w-6xl px-4 py-8 sm:px-6">
         <Outlet />
       </main>
     </div>
+  );
+}
+
+/** The main navigation, laid out in a row on wide screens and wrapped under the header on phones. */
+function NavItems({ unread, listClassName, linkClassName }: { unread: number; listClassName: string; linkClassName: string }) {
+  return (
+    <ul className={listClassName}>
+      {NAV.map((item) => (
+        <li key={item.to}>
+          <NavLink
+            to={item.to}
+            className={({ isActive }) =>
+              `rounded-md py-1.5 text-sm no-underline ${linkClassName} ${isActive ? "bg-copper-wash font-semibold text-copper-deep" : "text-ink-soft"}`
+            }
+          >
+            {item.label}
+            {item.to === "/desk" && unread > 0 ? (
+              <span className="ml-1 rounded-full bg-copper px-1.5 text-xs font-semibold text-white">
+                {unread}
+                <span className="sr-only"> new notices</span>
+              </span>
+            ) : null}
+          </NavLink>
+        </li>
+      ))}
+    </ul>
   );
 }
 
