@@ -3,7 +3,22 @@ import { CalculatorBlock } from "~/components/calc/calculator-block";
 import { evaluateSheet, type BlockOutcome } from "~/lib/calc/evaluate-sheet";
 import { calculators, getCalculator } from "~/lib/calc/registry";
 import type { ScalarResult } from "~/lib/calc/types";
-import { attribute, controlLabelled, descriptionOf, labels, render, selectedOption, tagById, textOf } from "./markup";
+import {
+  attribute,
+  bars,
+  controlLabelled,
+  descriptionOf,
+  drawnCharts,
+  labels,
+  markers,
+  render,
+  selectedOption,
+  tagById,
+  textOf,
+  traceData,
+  tracePoints,
+  xTicks,
+} from "./markup";
 
 interface Block {
   id: string;
@@ -49,12 +64,45 @@ describe("a quasi-square block, editable", () => {
     expect(text).toMatch(/α for least THD alphaMinThd 23\.2°/);
   });
 
-  it("captions the waveform and the spectrum with their facts, and reserves their plot areas", () => {
+  it("captions the waveform and the spectrum with their facts", () => {
     expect(text).toContain("Output voltage, one cycle. Angle 0–360° against voltage; the output steps between -48.0 V, 0 V, 48.0 V.");
     expect(text).toMatch(/Harmonic spectrum\. Each harmonic's amplitude in % of the fundamental, orders 3–49; the largest is order 7 at 14\.7 %\./);
     expect(text).toContain("The fundamental (100 %) is left off the bars");
-    // Recharts draws after hydration: on the server each plot is an empty box of its final size.
-    expect(html.match(/data-plot-ready="false"/g)).toHaveLength(2);
+  });
+
+  it("sends the waveform already drawn: one cycle stepping 0, +48 V, 0, −48 V, leaving zero at α = 23°", () => {
+    const charts = drawnCharts(html);
+    expect(charts).toHaveLength(2);
+    const [waveform] = charts;
+    const { plot } = waveform!;
+    const trace = tracePoints(waveform!);
+    // Three levels, +48 V drawn above the zero line and −48 V the same distance below it.
+    const levels = [...new Set(trace.map((p) => p.y))].sort((a, b) => a - b);
+    expect(levels).toHaveLength(3);
+    const [high, zero, low] = levels as [number, number, number];
+    expect(zero - high).toBeCloseTo(low - zero, 1);
+    expect(trace[0]).toEqual({ x: plot.x, y: zero });
+    expect(trace[trace.length - 1]!.x).toBeCloseTo(plot.x + plot.width, 1);
+    const firstRise = trace.find((p) => p.y === high)!;
+    expect(firstRise.x).toBeCloseTo(plot.x + (23 / 360) * plot.width, 1);
+    const firstFall = trace.find((p) => p.y === low)!;
+    expect(firstFall.x).toBeCloseTo(plot.x + ((180 + 23) / 360) * plot.width, 1);
+  });
+
+  it("prints the trace in hundredths, so the browser's copy of the chart library reproduces the server's path and hydration matches", () => {
+    const numbers = traceData(drawnCharts(html)[0]!).match(/-?[\d.]+/g)!;
+    expect(numbers.length).toBeGreaterThan(10);
+    for (const n of numbers) expect(n, n).toMatch(/^-?\d+(\.\d{1,2})?$/);
+  });
+
+  it("sends the spectrum already drawn: a bar per harmonic order, the tallest over order 7", () => {
+    const spectrum = drawnCharts(html)[1]!;
+    const drawn = bars(spectrum);
+    // Orders 3, 5, …, 49 of the harmonics table, without the fundamental.
+    expect(drawn).toHaveLength(24);
+    const tallest = drawn.reduce((a, b) => (b.height > a.height ? b : a));
+    const seven = xTicks(spectrum).find((t) => t.label === "7")!;
+    expect(tallest.x + tallest.width / 2).toBeCloseTo(seven.x, 0);
   });
 
   it("folds the full harmonics list into a table with peak, RMS and percent", () => {
@@ -77,7 +125,21 @@ describe("an LC filter block", () => {
     expect(text).toContain("Magnitude response. Gain in dB against frequency on a logarithmic axis");
     expect(text).toContain("marked: the corner f0 = 1.07 kHz; the switching frequency fsw = 20.0 kHz, where the gain is -50.8 dB.");
     expect(text).toMatch(/Corner frequency f0 1\.07 kHz/);
-    expect(html.match(/data-plot-ready="false"/g)).toHaveLength(1);
+  });
+
+  it("sends the Bode plot already drawn on a log frequency axis, with f0 and fsw marked and labelled", () => {
+    const charts = drawnCharts(html);
+    expect(charts).toHaveLength(1);
+    const bode = charts[0]!;
+    expect(tracePoints(bode).length).toBeGreaterThan(100);
+    const at = (label: string) => xTicks(bode).find((t) => t.label === label)!.x;
+    // Decades are evenly spaced.
+    expect(at("10k") - at("1k")).toBeCloseTo(at("1k") - at("100"), 1);
+    const marked = Object.fromEntries(markers(bode).map((m) => [m.label, m.x]));
+    expect(Object.keys(marked).sort()).toEqual(["f0", "fsw"]);
+    // 20 kHz stands log10(2) of a decade past 10k; f0 = 1.07 kHz just past 1k.
+    expect(marked.fsw!).toBeCloseTo(at("10k") + Math.log10(2) * (at("100k") - at("10k")), 0);
+    expect(marked.f0!).toBeCloseTo(at("1k") + Math.log10(1.073) * (at("10k") - at("1k")), 0);
   });
 
   it("shows the filter's own caution about ringing", () => {
@@ -111,7 +173,7 @@ describe("a block that fails", () => {
     expect(text).toMatch(/Output power \(p\): p must be a power/);
     expect(text).toMatch(/Output frequency \(f\): f must be/);
     expect(text).toContain("No results until the inputs are fixed.");
-    expect(html).not.toContain("data-plot-ready");
+    expect(drawnCharts(html)).toHaveLength(0);
   });
 
   it("links each problem in the summary to its field", () => {
