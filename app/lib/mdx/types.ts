@@ -20,6 +20,10 @@ export interface SourceProblem {
 
 /** Where an attribute's value sits in the source, so an edit in the form can be written back. */
 export interface AttributeSpan {
+  /** Offset of the attribute's name. */
+  start: number;
+  /** Offset just after the closing quote. */
+  end: number;
   /** Offset of the first character inside the quotes. */
   valueStart: number;
   /** Offset just after the last character inside the quotes. */
@@ -65,4 +69,10 @@ export const SOURCE_LIMITS = {
   maxBlocks: 200,
   /** Nesting depth of elements in the tree. */
   maxDepth: 64,
+  /** Citations in one document. */
+  maxCitations: 200,
+  /** List items plus quotes: the parser slows down sharply past a few thousand. */
+  maxListItemsAndQuotes: 1_000,
+  /** Characters of TeX over all formulas: KaTeX output is ~100 times its input. */
+  maxMathLength: 20_000,
 } as const;
