@@ -1,0 +1,149 @@
+/**
+ * The text a calc sheet is found by. Pure: the server builds search documents with
+ * it and the engines' tests check it directly.
+ *
+ * Engineers search for values the way they write them — `fsw 20 kHz`, `20kHz`,
+ * `quasi-square 48 V` — so each block contributes its calculator id, its input names
+ * with the values as typed, and the same values in the spellings people use for them:
+ * the app's display ("1.59 kHz"), trimmed ("20 kHz"), run together ("20khz"), with a
+ * plain-letter prefix ("4.7 uF") and in base SI units ("20000 Hz").
+ */
+import type { Root as HastRoot, RootContent } from "hast";
+import { formatQuantity } from "../calc/format";
+import { SI_UNIT } from "../calc/units";
+import type { Calculator } from "../calc/types";
+
+/** A block of the latest revision as stored: typed inputs, SI inputs and results. */
+export interface IndexedBlock {
+  blockId: string;
+  calculator: string;
+  inputs: Record<string, unknown>;
+  parsedInputs: Record<string, unknown> | null;
+  results: Record<string, unknown> | null;
+}
+
+const BLOCK_ELEMENTS = new Set(["p", "h1", "h2", "h3", "h4", "h5", "h6", "li", "blockquote", "pre", "table", "tr", "td", "th", "div", "section"]);
+
+/** The prose of a checked sheet as plain text, one line per paragraph, heading or list item. */
+export function proseText(tree: HastRoot): string {
+  const lines: string[] = [];
+  let line = "";
+  const flush = () => {
+    const text = line.replace(/\s+/g, " ").trim();
+    if (text) lines.push(text);
+    line = "";
+  };
+  const walk = (node: RootContent | HastRoot) => {
+    if (node.type === "text") line += node.value;
+    else if (node.type === "element" || node.type === "root") {
+      // KaTeX's MathML copy repeats the visible text; the annotation holds the LaTeX source.
+      if (node.type === "element" && (node.tagName === "annotation" || node.properties?.ariaHidden === "true")) return;
+      const block = node.type === "element" && BLOCK_ELEMENTS.has(node.tagName);
+      if (block) flush();
+      for (const child of node.children) walk(child as RootContent);
+      if (block) flush();
+      else if (node.type === "element") line += " ";
+    }
+  };
+  walk(tree);
+  flush();
+  return lines.join("\n");
+}
+
+/** Prefixes whose symbol is written with a plain letter as well. */
+const ASCII_PREFIX: Record<string, string> = { µ: "u", Ω: "ohm" };
+
+/**
+ * The spellings of one quantity people type, lower-cased: "20 khz", "20khz",
+ * "20000 hz" for 20 kHz; "4.7 µf", "4.7 uf", "4.7uf", "0.0000047 f" for 4.7 µF.
+ */
+export function quantitySpellings(value: number, unit: string): string[] {
+  if (!Number.isFinite(value)) return [];
+  const forms = new Set<string>();
+  for (const digits of [3, 4]) forms.add(formatQuantity(value, unit, { digits, trimZeros: true }));
+  forms.add(formatQuantity(value, unit));
+  const spellings = new Set<string>();
+  for (const form of forms) {
+    const text = form.toLowerCase();
+    spellings.add(text);
+    spellings.add(text.replace(/ /g, ""));
+    let ascii = text;
+    for (const [symbol, letters] of Object.entries(ASCII_PREFIX)) ascii = ascii.replaceAll(symbol.toLowerCase(), letters);
+    spellings.add(ascii);
+    spellings.add(ascii.replace(/ /g, ""));
+  }
+  if (unit && unit !== "%" && unit !== "deg" && unit !== "degC" && unit !== "dB" && unit !== "K/W") {
+    const base = Number(value.toPrecision(6));
+    if (Math.abs(base) >= 1e-6 && Math.abs(base) < 1e9) spellings.add(`${String(base)} ${unit.toLowerCase()}`);
+  }
+  return [...spellings];
+}
+
+function isScalar(value: unknown): value is { value: number; unit: string; display: string } {
+  return typeof value === "object" && value !== null && !Array.isArray(value) && typeof (value as { value?: unknown }).value === "number" && typeof (value as { display?: unknown }).display === "string";
+}
+
+/**
+ * One line per block: calculator id and title, block id, then each input and scalar
+ * result as "name value spellings…". Inputs referencing another block (`=qs1.v1Rms`)
+ * contribute their computed value.
+ */
+export function blockValuesText(blocks: IndexedBlock[], calculatorById: (id: string) => Calculator | undefined): string {
+  return blocks
+    .map((block) => {
+      const calculator = calculatorById(block.calculator);
+      const parts: string[] = [block.calculator, calculator?.title ?? "", block.blockId];
+      for (const [name, typed] of Object.entries(block.inputs)) {
+        parts.push(name);
+        if (typeof typed === "string" && !typed.startsWith("=")) parts.push(typed);
+        const spec = calculator?.inputs.find((i) => i.key === name);
+        const parsed = block.parsedInputs?.[name];
+        if (spec?.kind === "quantity" && typeof parsed === "number") parts.push(...quantitySpellings(parsed, SI_UNIT[spec.dimension]));
+      }
+      for (const [name, result] of Object.entries(block.results ?? {})) {
+        if (!isScalar(result)) continue;
+        parts.push(name, result.display, ...quantitySpellings(result.value, result.unit));
+      }
+      return parts.filter(Boolean).join(" ");
+    })
+    .join("\n");
+}
+
+/** A piece of a snippet: plain text, and whether it is a match to highlight. */
+export interface SnippetSegment {
+  text: string;
+  hit: boolean;
+}
+
+/**
+ * Splits engine output that marks matches with `start`…`stop` into segments. The
+ * markers are control characters no sheet contains, so author text is never parsed
+ * as markup and the UI renders segments as text.
+ */
+export function markedToSegments(marked: string, start: string, stop: string): SnippetSegment[] {
+  const segments: SnippetSegment[] = [];
+  const push = (text: string, hit: boolean) => {
+    if (!text) return;
+    const last = segments.at(-1);
+    if (last && last.hit === hit) last.text += text;
+    else segments.push({ text, hit });
+  };
+  let rest = marked;
+  while (rest) {
+    const open = rest.indexOf(start);
+    if (open < 0) {
+      push(rest, false);
+      break;
+    }
+    push(rest.slice(0, open), false);
+    const close = rest.indexOf(stop, open + start.length);
+    const end = close < 0 ? rest.length : close;
+    push(rest.slice(open + start.length, end), true);
+    rest = close < 0 ? "" : rest.slice(close + stop.length);
+  }
+  return segments;
+}
+
+/** Marker characters for highlights (ASCII STX / ETX). */
+export const HIT_START = "\u0002";
+export const HIT_STOP = "\u0003";

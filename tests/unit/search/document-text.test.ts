@@ -1,0 +1,66 @@
+import { describe, expect, it } from "vitest";
+import { getCalculator } from "~/lib/calc/registry";
+import { prepareSheet } from "~/lib/sheets/pipeline";
+import { blockValuesText, HIT_START, HIT_STOP, markedToSegments, proseText, quantitySpellings } from "~/lib/search/document-text";
+
+describe("quantity spellings", () => {
+  it("spells 20 kHz the ways engineers type it", () => {
+    expect(quantitySpellings(20_000, "Hz")).toEqual(expect.arrayContaining(["20 khz", "20khz", "20000 hz", "20.0 khz"]));
+  });
+
+  it("writes micro with a plain u as well as µ", () => {
+    expect(quantitySpellings(4.7e-6, "F")).toEqual(expect.arrayContaining(["4.7 µf", "4.7 uf", "4.7uf"]));
+  });
+
+  it("keeps unprefixed units unprefixed", () => {
+    const spellings = quantitySpellings(23, "deg");
+    expect(spellings).toContain("23°");
+    expect(spellings.some((s) => s.includes("k"))).toBe(false);
+  });
+});
+
+describe("search text of a sheet", () => {
+  const prepared = prepareSheet(
+    `## Output filter\n\nThe corner sits well below the switching frequency.\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" />\n\n<LcFilter id="lc1" l="1 mH" c="10 uF" rLoad="10 ohm" fsw="20kHz" vout="=qs1.v1Rms" />\n`,
+    "sheet",
+  );
+  if (!prepared.ok) throw new Error(JSON.stringify(prepared.problems));
+
+  it("takes the prose without the blocks", () => {
+    const text = proseText(prepared.tree);
+    expect(text).toContain("Output filter");
+    expect(text).toContain("The corner sits well below the switching frequency.");
+  });
+
+  it("lists calculator ids, inputs as typed and normalised, and result displays", () => {
+    const blocks = prepared.blocks.map((b) => {
+      const outcome = prepared.evaluation.blocks[b.id];
+      return { blockId: b.id, calculator: b.calculator, inputs: b.inputs, parsedInputs: outcome?.ok ? outcome.inputs : null, results: outcome?.ok ? outcome.results : null };
+    });
+    const [quasiSquare, lcFilter] = blockValuesText(blocks, getCalculator).split("\n");
+    expect(quasiSquare).toMatch(/^quasi-square .* vdc 48 V .*48 v/);
+    expect(lcFilter).toContain("lc-filter");
+    expect(lcFilter).toContain("fsw 20kHz");
+    expect(lcFilter).toContain("20 khz");
+    expect(lcFilter).toContain("f0 1.59 kHz");
+    // A referenced input contributes its computed value, not the reference.
+    expect(lcFilter).not.toContain("=qs1");
+    expect(lcFilter).toMatch(/vout .*39\.8 v/);
+  });
+});
+
+describe("snippet segments", () => {
+  it("turns engine marks into plain segments, never markup", () => {
+    const marked = `a <b>bold</b> ${HIT_START}filter${HIT_STOP} and ${HIT_START}inverter${HIT_STOP}`;
+    expect(markedToSegments(marked, HIT_START, HIT_STOP)).toEqual([
+      { text: "a <b>bold</b> ", hit: false },
+      { text: "filter", hit: true },
+      { text: " and ", hit: false },
+      { text: "inverter", hit: true },
+    ]);
+  });
+
+  it("joins neighbouring marks and keeps an unclosed mark's text", () => {
+    expect(markedToSegments(`${HIT_START}20${HIT_STOP}${HIT_START} kHz`, HIT_START, HIT_STOP)).toEqual([{ text: "20 kHz", hit: true }]);
+  });
+});
