@@ -93,7 +93,8 @@ class SourceWalk {
     let tooDeep = false;
     while (stack.length > 0) {
       const { node, depth } = stack.pop()!;
-      if (depth > SOURCE_LIMITS.maxDepth) {
+      // Leaves (text, math, code) nest nothing, so only parents count towards the depth.
+      if (depth > SOURCE_LIMITS.maxDepth && "children" in node) {
         if (!tooDeep) this.problem(node, `Elements are nested more than ${SOURCE_LIMITS.maxDepth} levels deep here. Flatten the structure.`);
         tooDeep = true;
         continue;

@@ -107,7 +107,9 @@ export function nextBlockId(calculatorId: string, existingIds: Iterable<string>)
 
 /** `value` in quotes, written so that MDX reads it back exactly (quotes, `&` and all). */
 export function quoteAttributeValue(value: string): string {
-  // NUL and CR are rewritten by the parser, other control characters are invisible in the editor.
+  // Inside a tag, a blank line or a line starting like a list or quote ends the tag early.
+  if (/[\n\r]/.test(value)) throw new Error("A value must fit on one line.");
+  // The parser rewrites NUL; the other control characters are invisible in the editor.
   if (/[\u0000-\u0008\u000b-\u001f\u007f]/.test(value)) {
     throw new Error("A value cannot hold control characters; type it again without them.");
   }
