@@ -19,6 +19,10 @@ const schema = z.object({
   DEV_PAGES: z.enum(["0", "1"]).default("0"),
   /** "off" only for test servers that sign in hundreds of times a minute from one address. */
   RATE_LIMITS: z.enum(["on", "off"]).default("on"),
+  /** Meilisearch for large teams; unset, search runs on PostgreSQL alone. */
+  MEILI_HOST: z.string().url({ message: "must be the Meilisearch URL, e.g. http://127.0.0.1:7700" }).optional(),
+  MEILI_KEY: z.string().optional(),
+  MEILI_INDEX: z.string().regex(/^[A-Za-z0-9_-]+$/, { message: "letters, digits, - and _ only" }).default("sinewright"),
 });
 
 export type AppConfig = z.infer<typeof schema>;

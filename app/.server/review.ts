@@ -10,6 +10,7 @@ import { db, type Database } from "./db/client";
 import { auditEvent, calcSheet, checkRequest, checkValue, member, notification, reviewComment, revisionBlock, sheetRevision, stamp, user } from "./db/schema";
 import { enqueueMail } from "./mail/outbox";
 import type { Member } from "./access";
+import { indexSheet } from "./search/indexer";
 import { roleAtLeast, type Role } from "./roles";
 import type { revisionBlocks } from "./sheets";
 
@@ -87,6 +88,7 @@ export async function submitForCheck(me: Member, revisionId: string, checkerId: 
       .where(and(eq(member.organizationId, me.team.teamId), eq(member.userId, checkerId)));
     if (!checkerMember || !roleAtLeast(checkerMember.role as Role, "checker")) throw new ReviewRuleError("The checker must be a member of this team with the checker or admin role.", 400);
     await tx.update(sheetRevision).set({ state: "submitted" }).where(eq(sheetRevision.id, revision.id));
+    await indexSheet(tx, sheet.id); // search: hits show the review state and filter on it
     await tx.insert(checkRequest).values({ revisionId: revision.id, sheetId: sheet.id, teamId: sheet.teamId, requestedBy: me.user.id, checkerId });
     const checker = (await userById(tx, checkerId))!;
     const label = sheetNumberLabel(sheet.number);
@@ -224,6 +226,7 @@ export async function returnRevision(me: Member, revisionId: string) {
     const [{ comments }] = (await tx.select({ comments: sql<number>`count(*)::int` }).from(reviewComment).where(eq(reviewComment.revisionId, revision.id))) as [{ comments: number }];
     if (comments === 0) throw new ReviewRuleError("Write at least one comment saying what to change before returning the revision.", 400);
     await tx.update(sheetRevision).set({ state: "returned" }).where(eq(sheetRevision.id, revision.id));
+    await indexSheet(tx, sheet.id); // search: hits show the review state and filter on it
     const request = await openRequest(tx, revision.id);
     if (request) await tx.update(checkRequest).set({ outcome: "returned", closedAt: new Date() }).where(eq(checkRequest.id, request.id));
     await recordAudit({ teamId: sheet.teamId, actorId: me.user.id, action: "revision.returned", subjectType: "sheet", subjectId: sheet.id, detail: { label: revision.label } }, tx);
@@ -259,6 +262,7 @@ export async function stampRevision(me: Member, revisionId: string) {
     if (sheet.latestRevisionId !== revision.id) throw new ReviewRuleError(`Revision ${revision.label} has been superseded; only the latest submitted revision can be verified.`, 409);
     await tx.insert(stamp).values({ revisionId: revision.id, sheetId: sheet.id, teamId: sheet.teamId, checkerId: me.user.id, contentHash: revision.contentHash, engineVersion: revision.engineVersion });
     await tx.update(sheetRevision).set({ state: "verified" }).where(eq(sheetRevision.id, revision.id));
+    await indexSheet(tx, sheet.id); // search: hits show the review state and filter on it
     const request = await openRequest(tx, revision.id);
     if (request) await tx.update(checkRequest).set({ outcome: "verified", closedAt: new Date() }).where(eq(checkRequest.id, request.id));
     await recordAudit({ teamId: sheet.teamId, actorId: me.user.id, action: "revision.verified", subjectType: "sheet", subjectId: sheet.id, detail: { label: revision.label, contentHash: revision.contentHash } }, tx);

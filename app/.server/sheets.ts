@@ -6,6 +6,7 @@ import { recordAudit } from "./audit";
 import { db } from "./db/client";
 import { calcSheet, organization, project, revisionBlock, sheetDraft, sheetRevision, user } from "./db/schema";
 import type { Member } from "./access";
+import { indexSheet } from "./search/indexer";
 
 export const SHEET_STATUSES = ["unsaved", "draft", "submitted", "returned", "verified"] as const;
 export type SheetStatus = (typeof SHEET_STATUSES)[number];
@@ -264,6 +265,7 @@ export async function saveRevision(
     });
     if (rows.length > 0) await tx.insert(revisionBlock).values(rows);
     await tx.update(calcSheet).set({ latestRevisionId: revision!.id, updatedAt: new Date() }).where(eq(calcSheet.id, sheet.id));
+    await indexSheet(tx, sheet.id); // search: the sheet's search document follows its latest revision
     await tx.delete(sheetDraft).where(and(eq(sheetDraft.sheetId, sheet.id), eq(sheetDraft.authorId, me.user.id)));
     await recordAudit(
       { teamId: current.teamId, actorId: me.user.id, action: "revision.saved", subjectType: "sheet", subjectId: sheet.id, detail: { label, contentHash, blocks: rows.length } },
@@ -284,5 +286,6 @@ export async function updateSheetDetails(me: Member, sheetId: string, input: { t
     .update(calcSheet)
     .set({ title: input.title, projectId: input.projectId, tags: input.tags, updatedAt: new Date() })
     .where(and(eq(calcSheet.id, sheetId), eq(calcSheet.teamId, me.team.teamId)));
+  await indexSheet(db(), sheetId); // search: title, project and tags are searched
   await recordAudit({ teamId: me.team.teamId, actorId: me.user.id, action: "sheet.details-changed", subjectType: "sheet", subjectId: sheetId, detail: { title: input.title } });
 }

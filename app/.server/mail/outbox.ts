@@ -3,6 +3,8 @@ import nodemailer, { type Transporter } from "nodemailer";
 import { config } from "../config";
 import { db, type Database } from "../db/client";
 import { outbox } from "../db/schema";
+import { SEARCH_OUTBOX_KIND } from "../search/indexer";
+import { deliverSearchCopy } from "../search/sync";
 
 export interface MailMessage {
   to: string;
@@ -49,8 +51,12 @@ export async function drainOutbox(limit = 20): Promise<{ sent: number; failed: n
         .for("update", { skipLocked: true });
       if (!row) return "empty" as const;
       try {
-        const message = row.payload as MailMessage;
-        await mailTransport().sendMail({ to: message.to, subject: message.subject, text: message.text });
+        // Search: the outbox also carries copies of search documents to Meilisearch.
+        if (row.kind === SEARCH_OUTBOX_KIND) await deliverSearchCopy(tx, row.payload as { id: string });
+        else {
+          const message = row.payload as MailMessage;
+          await mailTransport().sendMail({ to: message.to, subject: message.subject, text: message.text });
+        }
         await tx.update(outbox).set({ sentAt: new Date(), attempts: row.attempts + 1, lastError: null }).where(eq(outbox.id, row.id));
         return "sent" as const;
       } catch (error) {

@@ -1,0 +1,53 @@
+/**
+ * Which engine answers. Without MEILI_HOST, PostgreSQL. With it, Meilisearch — and
+ * when Meilisearch cannot be reached, PostgreSQL again with a notice: its rows are
+ * written in the same transaction as every change, so nothing is missing from it.
+ */
+import { config } from "../config";
+import { MeilisearchEngine } from "./meilisearch";
+import { PostgresSearchEngine } from "./postgres";
+import type { SearchDocument, SearchEngine, SearchFilters, SearchResult } from "./types";
+
+export const FALLBACK_NOTICE = "Search is running on the fallback engine; results may rank differently";
+
+export class FallbackSearchEngine implements SearchEngine {
+  readonly name: "meilisearch" = "meilisearch";
+
+  constructor(
+    readonly primary: SearchEngine,
+    readonly fallback: SearchEngine,
+    private readonly onFallback: (error: unknown) => void = () => {},
+  ) {}
+
+  async search(teamId: string, query: string, filters?: SearchFilters): Promise<SearchResult> {
+    try {
+      return await this.primary.search(teamId, query, filters);
+    } catch (error) {
+      this.onFallback(error);
+      return { ...(await this.fallback.search(teamId, query, filters)), notice: FALLBACK_NOTICE };
+    }
+  }
+
+  /** Writes go to the primary only: PostgreSQL's rows are written with the change itself. */
+  index(doc: SearchDocument): Promise<void> {
+    return this.primary.index(doc);
+  }
+
+  remove(id: string): Promise<void> {
+    return this.primary.remove(id);
+  }
+}
+
+/** The Meilisearch engine when configured (clients are stateless HTTP handles). */
+export function meilisearchEngine(): MeilisearchEngine | undefined {
+  const { MEILI_HOST, MEILI_KEY, MEILI_INDEX } = config();
+  if (!MEILI_HOST) return undefined;
+  return new MeilisearchEngine({ host: MEILI_HOST, apiKey: MEILI_KEY, indexName: MEILI_INDEX });
+}
+
+/** The engine searches go through: PostgreSQL, or Meilisearch with PostgreSQL as its fallback. */
+export function searchEngine(): SearchEngine {
+  const meili = meilisearchEngine();
+  const postgres = new PostgresSearchEngine();
+  return meili ? new FallbackSearchEngine(meili, postgres, (error) => console.warn(`[search] Meilisearch unreachable, answering from PostgreSQL: ${String(error)}`)) : postgres;
+}

@@ -1,0 +1,129 @@
+/**
+ * Keeps `search_document` current. Called inside the transaction that changes a sheet
+ * (save, details, submit, return, stamp), so PostgreSQL search is never behind; when
+ * Meilisearch is configured, the same transaction queues an outbox row that copies the
+ * document there, so an outage delays the copy and loses nothing.
+ */
+import { asc, eq, sql } from "drizzle-orm";
+import type { Root as HastRoot } from "hast";
+import { getCalculator } from "~/lib/calc/registry";
+import { blockValuesText, proseText, type IndexedBlock } from "~/lib/search/document-text";
+import { config } from "../config";
+import type { Database } from "../db/client";
+import { calcSheet, outbox, project, revisionBlock, searchDocument, sheetRevision } from "../db/schema";
+import { kickOutbox } from "../mail/outbox";
+import type { SearchDocument } from "./types";
+
+type Tx = Pick<Database, "select" | "selectDistinct" | "insert" | "delete" | "execute">;
+
+export const SEARCH_OUTBOX_KIND = "search-index";
+
+/** Builds a sheet's search document from its latest revision; undefined when the sheet is gone. */
+export async function buildSheetDocument(tx: Tx, sheetId: string): Promise<SearchDocument | undefined> {
+  const [sheet] = await tx
+    .select({ sheet: calcSheet, projectCode: project.code, projectName: project.name })
+    .from(calcSheet)
+    .leftJoin(project, eq(project.id, calcSheet.projectId))
+    .where(eq(calcSheet.id, sheetId));
+  if (!sheet) return undefined;
+  const { sheet: s } = sheet;
+  const [revision] = s.latestRevisionId
+    ? await tx
+        .select({ id: sheetRevision.id, label: sheetRevision.label, state: sheetRevision.state, renderTree: sheetRevision.renderTree, createdAt: sheetRevision.createdAt })
+        .from(sheetRevision)
+        .where(eq(sheetRevision.id, s.latestRevisionId))
+    : [];
+  const blocks = revision
+    ? await tx
+        .select({ blockId: revisionBlock.blockId, calculator: revisionBlock.calculator, inputs: revisionBlock.inputs, parsedInputs: revisionBlock.parsedInputs, results: revisionBlock.results })
+        .from(revisionBlock)
+        .where(eq(revisionBlock.revisionId, revision.id))
+        .orderBy(asc(revisionBlock.position))
+    : [];
+  const authors = await tx
+    .selectDistinct({ authorId: sheetRevision.authorId })
+    .from(sheetRevision)
+    .where(eq(sheetRevision.sheetId, sheetId));
+  const calculators = [...new Set(blocks.map((b) => b.calculator))].sort();
+  const keywords = [
+    ...s.tags,
+    sheet.projectCode ?? "",
+    sheet.projectName ?? "",
+    ...calculators.flatMap((id) => [id, getCalculator(id)?.title ?? ""]),
+  ]
+    .filter(Boolean)
+    .join("\n");
+  return {
+    id: s.id,
+    kind: "sheet",
+    teamId: s.teamId,
+    sheetId: s.id,
+    number: s.number,
+    title: s.title,
+    projectId: s.projectId,
+    projectCode: sheet.projectCode,
+    tags: s.tags,
+    calculators,
+    authorIds: authors.map((a) => a.authorId).filter((id): id is string => Boolean(id)).sort(),
+    revisionId: revision?.id ?? null,
+    revisionLabel: revision?.label ?? null,
+    state: revision?.state ?? "unsaved",
+    keywords,
+    body: revision ? proseText(revision.renderTree as HastRoot) : "",
+    blockValues: blockValuesText(blocks as IndexedBlock[], getCalculator),
+    updatedAt: s.updatedAt > (revision?.createdAt ?? s.updatedAt) ? s.updatedAt : (revision?.createdAt ?? s.updatedAt),
+  };
+}
+
+/** Writes a search document row (insert or replace). */
+export async function upsertSearchDocument(tx: Pick<Database, "insert">, doc: SearchDocument): Promise<void> {
+  const { id, ...rest } = doc;
+  await tx.insert(searchDocument).values(doc).onConflictDoUpdate({ target: searchDocument.id, set: rest });
+}
+
+async function queueCopy(tx: Pick<Database, "insert">, id: string) {
+  if (!config().MEILI_HOST) return;
+  await tx.insert(outbox).values({ kind: SEARCH_OUTBOX_KIND, payload: { id } });
+  kickOutbox();
+}
+
+/** Re-indexes one sheet inside the caller's transaction. */
+export async function indexSheet(tx: Tx, sheetId: string): Promise<void> {
+  const doc = await buildSheetDocument(tx, sheetId);
+  if (!doc) return removeFromSearch(tx, sheetId);
+  await upsertSearchDocument(tx, doc);
+  await queueCopy(tx, doc.id);
+}
+
+/** Takes a sheet or document out of search (for when it is deleted). */
+export async function removeFromSearch(tx: Tx, id: string): Promise<void> {
+  await tx.delete(searchDocument).where(eq(searchDocument.id, id));
+  await queueCopy(tx, id);
+}
+
+/** Rebuilds every sheet's row in PostgreSQL, in batches; returns how many. */
+export async function rebuildSearchDocuments(db: Database, onProgress?: (done: number) => void): Promise<number> {
+  let done = 0;
+  let after = "";
+  for (;;) {
+    const batch = await db
+      .select({ id: calcSheet.id })
+      .from(calcSheet)
+      .where(sql`${calcSheet.id} > ${after}`)
+      .orderBy(asc(calcSheet.id))
+      .limit(200);
+    if (batch.length === 0) break;
+    await db.transaction(async (tx) => {
+      for (const { id } of batch) {
+        const doc = await buildSheetDocument(tx, id);
+        if (doc) await upsertSearchDocument(tx, doc);
+      }
+    });
+    done += batch.length;
+    after = batch.at(-1)!.id;
+    onProgress?.(done);
+  }
+  // Rows whose sheet is gone (a document kind without its own rebuild yet keeps its rows).
+  await db.delete(searchDocument).where(sql`${searchDocument.kind} = 'sheet' and not exists (select 1 from calc_sheet s where s.id = ${searchDocument.sheetId})`);
+  return done;
+}

@@ -1,0 +1,118 @@
+/**
+ * Search on PostgreSQL alone: websearch_to_tsquery (quotes, OR, -word), weighted
+ * ranking and ts_headline snippets. Where the RUM extension is installed, its index
+ * hands back rows already in rank order, so a query of common words ranks only the
+ * page it returns; elsewhere the GIN index finds the matches and ts_rank orders them.
+ */
+import { eq, sql, type SQL } from "drizzle-orm";
+import { HIT_START, HIT_STOP, markedToSegments } from "~/lib/search/document-text";
+import { db, type Database } from "../db/client";
+import { searchDocument } from "../db/schema";
+import { upsertSearchDocument } from "./indexer";
+import { pageOf, TOTAL_CAP, type SearchDocument, type SearchEngine, type SearchFilters, type SearchResult } from "./types";
+
+const HEADLINE_OPTIONS = `StartSel=${HIT_START}, StopSel=${HIT_STOP}, MaxWords=24, MinWords=10, MaxFragments=2, FragmentDelimiter=" … "`;
+
+let rankIndex: Promise<boolean> | undefined;
+
+/** Whether this database has the rank-order (RUM) index; asked once per process. */
+export function hasRankOrderIndex(database: Database = db()): Promise<boolean> {
+  rankIndex ??= database
+    .execute<{ present: boolean }>(sql`select exists (select 1 from pg_indexes where indexname = 'search_document_rank_idx') as present`)
+    .then((r) => Boolean(r.rows[0]?.present))
+    .catch((error) => {
+      rankIndex = undefined;
+      throw error;
+    });
+  return rankIndex;
+}
+
+function filterConditions(teamId: string, filters: SearchFilters): SQL[] {
+  const conditions: SQL[] = [sql`d.team_id = ${teamId}`];
+  if (filters.kind) conditions.push(sql`d.kind = ${filters.kind}`);
+  if (filters.verifiedOnly) conditions.push(sql`d.state = 'verified'`);
+  if (filters.projectId) conditions.push(sql`d.project_id = ${filters.projectId}`);
+  if (filters.calculator) conditions.push(sql`d.calculators @> array[${filters.calculator}]::text[]`);
+  if (filters.authorId) conditions.push(sql`d.author_ids @> array[${filters.authorId}]::text[]`);
+  if (filters.updatedFrom) conditions.push(sql`d.updated_at >= ${filters.updatedFrom.toISOString()}`);
+  if (filters.updatedBefore) conditions.push(sql`d.updated_at < ${filters.updatedBefore.toISOString()}`);
+  return conditions;
+}
+
+interface Row extends Record<string, unknown> {
+  id: string;
+  kind: "sheet" | "document";
+  number: number;
+  title: string;
+  project_code: string | null;
+  state: string;
+  revision_label: string | null;
+  score: number;
+  headline: string;
+}
+
+export class PostgresSearchEngine implements SearchEngine {
+  readonly name = "postgres" as const;
+
+  constructor(private readonly database: Database = db()) {}
+
+  async search(teamId: string, query: string, filters: SearchFilters = {}): Promise<SearchResult> {
+    const { limit, offset } = pageOf(filters);
+    const where = sql.join(filterConditions(teamId, filters), sql` and `);
+    const text = query.trim();
+    const tsquery = sql`websearch_to_tsquery('sinewright', ${text})`;
+    const columns = sql`d.id, d.kind, d.number, d.title, d.project_code, d.state, d.revision_label`;
+    let page: SQL;
+    let matches: SQL;
+    if (!text) {
+      // No words: the newest first, opening lines as the snippet.
+      page = sql`select ${columns}, 0::float8 as score, left(d.body, 200) as headline from search_document d where ${where} order by d.updated_at desc, d.id limit ${limit} offset ${offset}`;
+      matches = sql`select 1 from search_document d where ${where}`;
+    } else {
+      const order = (await hasRankOrderIndex(this.database))
+        ? { score: sql`1 / nullif(d.search <=> q.query, 0)`, by: sql`d.search <=> q.query` }
+        : { score: sql`ts_rank(d.search, q.query)`, by: sql`ts_rank(d.search, q.query) desc` };
+      // Snippets only for the page: ts_headline re-parses the text, so it runs on the few rows shown.
+      page = sql`
+        select p.*, ts_headline('sinewright', p.body || E'\n' || p.block_values, p.query, ${HEADLINE_OPTIONS}) as headline
+        from (
+          select ${columns}, d.body, d.block_values, q.query, (${order.score})::float8 as score
+          from search_document d, ${tsquery} as q(query)
+          where ${where} and d.search @@ q.query
+          order by ${order.by}, d.id
+          limit ${limit} offset ${offset}
+        ) p
+        order by p.score desc, p.id`;
+      matches = sql`select 1 from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
+    }
+    const [rows, counted] = await Promise.all([
+      this.database.execute<Row>(page),
+      this.database.execute<{ n: number }>(sql`select count(*)::int as n from (${matches} limit ${TOTAL_CAP + 1}) m`),
+    ]);
+    const n = counted.rows[0]?.n ?? 0;
+    return {
+      hits: rows.rows.map((r) => ({
+        id: r.id,
+        kind: r.kind,
+        sheetNumber: r.number,
+        title: r.title,
+        projectCode: r.project_code,
+        state: r.state,
+        revisionLabel: r.revision_label,
+        snippet: markedToSegments(r.headline ?? "", HIT_START, HIT_STOP),
+        score: Number(r.score) || 0,
+      })),
+      total: Math.min(n, TOTAL_CAP),
+      totalIsEstimate: n > TOTAL_CAP,
+      engine: "postgres",
+    };
+  }
+
+  async index(doc: SearchDocument): Promise<void> {
+    await upsertSearchDocument(this.database, doc);
+  }
+
+  async remove(id: string): Promise<void> {
+    await this.database.delete(searchDocument).where(eq(searchDocument.id, id));
+  }
+}
