@@ -16,7 +16,8 @@ import { SOURCE_LIMITS, type SourceProblem } from "./types";
 const TAG_DEPTH_ESTIMATE_LIMIT = 4 * SOURCE_LIMITS.maxDepth;
 /** Emphasis marks (* _ ~) or square brackets in one paragraph (text between blank lines). */
 const PARAGRAPH_MARK_LIMIT = 1_000;
-const EMPHASIS_DEPTH_LIMIT = 32;
+/** Ordinary prose nests emphasis and brackets two or three deep; the parser's cost grows with the square. */
+const INLINE_DEPTH_LIMIT = 16;
 
 const formatKilobytes = (characters: number) =>
   characters >= 1_000_000 ? `${(characters / 1_000_000).toFixed(1)} MB` : `${Math.ceil(characters / 1_000)} KB`;
@@ -59,6 +60,9 @@ export function prescanSource(source: string): SourceProblem | undefined {
   const at = (offset: number, message: string): SourceProblem => ({ message, line, column: offset - lineStart + 1 });
 
   while (lineStart <= source.length) {
+    if (line > SOURCE_LIMITS.maxLines && lineStart < source.length) {
+      return at(lineStart, `The source has more than ${SOURCE_LIMITS.maxLines.toLocaleString("en")} lines. Split it into several sheets.`);
+    }
     let lineEnd = source.indexOf("\n", lineStart);
     if (lineEnd === -1) lineEnd = source.length;
 
@@ -146,8 +150,8 @@ export function prescanSource(source: string): SourceProblem | undefined {
         if (opens && !closes) emphasisDepth += levels;
         else if (closes && !opens) emphasisDepth = Math.max(0, emphasisDepth - levels);
         emphasisMarks += run;
-        if (emphasisDepth > EMPHASIS_DEPTH_LIMIT) {
-          return at(k, `Emphasis (* or _) is nested more than ${EMPHASIS_DEPTH_LIMIT} levels deep here. Close what you opened, or write \\* for a literal star.`);
+        if (emphasisDepth > INLINE_DEPTH_LIMIT) {
+          return at(k, `Emphasis (* or _) is nested more than ${INLINE_DEPTH_LIMIT} levels deep here. Close what you opened, or write \\* for a literal star.`);
         }
         if (emphasisMarks > PARAGRAPH_MARK_LIMIT) {
           return at(
@@ -159,8 +163,8 @@ export function prescanSource(source: string): SourceProblem | undefined {
       } else if (code === 91 || code === 93) {
         bracketDepth = code === 91 ? bracketDepth + 1 : Math.max(0, bracketDepth - 1);
         brackets += 1;
-        if (bracketDepth > SOURCE_LIMITS.maxDepth) {
-          return at(k, `Square brackets are nested more than ${SOURCE_LIMITS.maxDepth} levels deep here. Close what you opened, or write \\[ for a literal bracket.`);
+        if (bracketDepth > INLINE_DEPTH_LIMIT) {
+          return at(k, `Square brackets are nested more than ${INLINE_DEPTH_LIMIT} levels deep here. Close what you opened, or write \\[ for a literal bracket.`);
         }
         if (brackets > PARAGRAPH_MARK_LIMIT) {
           return at(

@@ -71,6 +71,8 @@ export const SOURCE_LIMITS = {
   maxDepth: 64,
   /** Citations in one document. */
   maxCitations: 200,
+  /** Lines: the parser's time grows with them (about 25 µs each), whatever they hold. */
+  maxLines: 10_000,
   /** List items plus quotes: the parser slows down sharply past a few thousand. */
   maxListItemsAndQuotes: 1_000,
   /** Characters of TeX over all formulas: KaTeX output is ~100 times its input. */

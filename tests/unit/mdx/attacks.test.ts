@@ -83,9 +83,10 @@ describe("sources too large or too deep", () => {
     expect(problemsOf("a* ".repeat(60_000))[0]?.message).toMatch(/more than 1,000 emphasis marks/);
     expect(problemsOf("a] ".repeat(60_000))[0]?.message).toMatch(/more than 1,000 square brackets/);
     expect(problemsOf("> quote\n\n".repeat(5_000))[0]?.message).toMatch(/more than 1,000 list items and quotes/);
-    expect(problemsOf("*a _".repeat(2_000) + "b_ c* ".repeat(2_000))[0]?.message).toMatch(/Emphasis .* nested more than 32 levels/);
+    expect(problemsOf("*a _".repeat(2_000) + "b_ c* ".repeat(2_000))[0]?.message).toMatch(/Emphasis .* nested more than 16 levels/);
     expect(problemsOf("![".repeat(10_000) + "x" + "](y)".repeat(10_000))[0]?.message).toMatch(/Square brackets are nested/);
     expect(problemsOf("{".repeat(10_000) + "}".repeat(10_000))[0]?.message).toMatch(/Curly braces are nested/);
+    expect(problemsOf("x\n\n".repeat(20_000))[0]).toEqual({ message: "The source has more than 10,000 lines. Split it into several sheets.", line: 10_001, column: 1 });
   });
 
   it("refuses formulas too long to typeset", () => {
@@ -97,6 +98,8 @@ describe("sources too large or too deep", () => {
     const paragraph = "The *ripple* on the **DC link** stays under [the limit](https://example.com) for $f_{sw} = 20$ kHz.\n\n";
     const list = Array.from({ length: 300 }, (_, i) => `- item ${i}`).join("\n") + "\n\n";
     expect(checkSheetSource(paragraph.repeat(400) + list).ok).toBe(true);
+    const exactlyAtTheLineLimit = "x\n".repeat(10_000);
+    expect(checkSheetSource(exactlyAtTheLineLimit).ok).toBe(true);
   });
 });
 
