@@ -50,7 +50,7 @@ const ESM_ADVICE = "import and export run code, which sheets do not allow. Remov
 
 /** Check an author's source and, when it is sound, list its blocks and build its render tree. */
 export function checkSheetSource(source: string, kind: SourceKind = "sheet"): CheckedSource {
-  const tooLong = checkSourceLength(source);
+  const tooLong = checkSourceLength(source, kind);
   if (tooLong) return { ok: false, problems: [tooLong] };
   const unsafeShape = prescanSource(source);
   if (unsafeShape) return { ok: false, problems: [unsafeShape] };

@@ -10,7 +10,7 @@
  * their limits sit where ordinary sheets never reach and the parser is still fast.
  * The exact depth limit is checked on the parsed tree afterwards.
  */
-import { SOURCE_LIMITS, type SourceProblem } from "./types";
+import { SOURCE_LIMITS, type SourceKind, type SourceProblem } from "./types";
 
 /** Tags counted as opened minus closed; `<` inside code or math counts too, hence the head room. */
 const TAG_DEPTH_ESTIMATE_LIMIT = 4 * SOURCE_LIMITS.maxDepth;
@@ -23,10 +23,11 @@ const formatKilobytes = (characters: number) =>
   characters >= 1_000_000 ? `${(characters / 1_000_000).toFixed(1)} MB` : `${Math.ceil(characters / 1_000)} KB`;
 
 /** One problem if the source is too large; checked before anything else reads it. */
-export function checkSourceLength(source: string): SourceProblem | undefined {
+export function checkSourceLength(source: string, kind: SourceKind): SourceProblem | undefined {
   if (source.length <= SOURCE_LIMITS.maxLength) return undefined;
+  const [one, several] = kind === "document" ? ["a project document", "documents"] : ["a sheet", "sheets"];
   return {
-    message: `The source is ${formatKilobytes(source.length)}; a sheet may be at most ${formatKilobytes(SOURCE_LIMITS.maxLength)}. Split it into several sheets.`,
+    message: `The source is ${formatKilobytes(source.length)}; ${one} may be at most ${formatKilobytes(SOURCE_LIMITS.maxLength)}. Split it into several ${several}.`,
     line: 1,
     column: 1,
   };

@@ -45,6 +45,7 @@ export interface SourceBlock {
   /** Offsets of the whole element in the source. */
   start: number;
   end: number;
+  /** Where each attribute sits, `id` included. */
   attributes: Record<string, AttributeSpan>;
 }
 

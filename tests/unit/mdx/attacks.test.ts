@@ -56,6 +56,10 @@ describe("sources too large or too deep", () => {
   it("refuses 5 MB without reading it", () => {
     const problems = problemsOf("x".repeat(5_000_000));
     expect(problems).toEqual([{ message: "The source is 5.0 MB; a sheet may be at most 200 KB. Split it into several sheets.", line: 1, column: 1 }]);
+    expect(problemsOf("x".repeat(200_001), "document")[0]?.message).toBe(
+      "The source is 201 KB; a project document may be at most 200 KB. Split it into several documents.",
+    );
+    expect(checkSheetSource("x".repeat(200_000)).ok).toBe(true);
   });
 
   it("refuses 10,000 nested spans before parsing, without a stack overflow", () => {

@@ -74,7 +74,9 @@ describe("setBlockInput", () => {
     values: fc.array(valueText, { minLength: 4, maxLength: 4 }),
   });
 
-  function sheetOf(shapes: fc.infer<typeof blockShape>[]): string {
+  type BlockShape = typeof blockShape extends fc.Arbitrary<infer Shape> ? Shape : never;
+
+  function sheetOf(shapes: BlockShape[]): string {
     return shapes
       .map((shape, index) => {
         const component = componentNameOf(shape.calculator);
