@@ -18,7 +18,7 @@ import {
   CAUTION_COMPONENT,
   CITE_COMPONENT,
   calculatorIdOf,
-  CALCULATOR_COMPONENTS,
+  nextBlockId,
   SAFE_HTML_ELEMENTS,
   SOURCE_BLOCK_ID_PATTERN,
   VOID_HTML_ELEMENTS,
@@ -257,7 +257,8 @@ class SourceWalk {
       attributes[attribute.name] = this.span(attribute);
     }
     if (id === undefined) {
-      this.problem(node, `This block needs an id, e.g. <${component} id="${CALCULATOR_COMPONENTS.find((c) => c.component === component)!.idPrefix}1" … />; other blocks refer to its results by it.`);
+      const example = nextBlockId(calculatorId, this.blockLines.keys());
+      this.problem(node, `This block needs an id, e.g. <${component} id="${example}" … />; other blocks refer to its results by it.`);
       return;
     }
     if (!SOURCE_BLOCK_ID_PATTERN.test(id)) {
