@@ -84,6 +84,7 @@ export default function SheetEditor() {
   const autosave = useFetcher<typeof action>();
   const [source, setSource] = useState(loaded.source);
   const [dirty, setDirty] = useState(false);
+  const [writeBackError, setWriteBackError] = useState<string | null>(null);
   const view = useRef<EditorView | null>(null);
   const deferredSource = useDeferredValue(source);
   const prepared = useMemo(() => prepareSheet(deferredSource, "sheet"), [deferredSource]);
@@ -110,8 +111,10 @@ export default function SheetEditor() {
       if (!block) return;
       try {
         edit(setBlockInput(source, block, key, value));
-      } catch {
-        // A value the source cannot hold (e.g. a double quote) is simply not written back.
+        setWriteBackError(null);
+      } catch (error) {
+        // The source could not take this value (e.g. a line break): say so instead of losing it silently.
+        setWriteBackError(`${blockId}.${key}: ${error instanceof Error ? error.message : String(error)}`);
       }
     },
     [prepared, source, edit],
@@ -246,6 +249,11 @@ export default function SheetEditor() {
           <h2 id="preview-heading" className="mb-3 text-sm font-semibold">
             Live preview
           </h2>
+          {writeBackError ? (
+            <div role="alert" className="mb-3 rounded-md border border-[#e2b4b0] bg-danger-wash px-3 py-2 text-sm text-danger">
+              {writeBackError}
+            </div>
+          ) : null}
           <div className="panel p-4 sm:p-6">
             {prepared.ok ? (
               <SheetView tree={prepared.tree} inputsById={Object.fromEntries(prepared.blocks.map((b) => [b.id, b.inputs]))} evaluation={prepared.evaluation} editable onInputChange={onInputChange} />
