@@ -13,6 +13,9 @@ import { pageOf, TOTAL_CAP, type SearchDocument, type SearchEngine, type SearchF
 
 const HEADLINE_OPTIONS = `StartSel=${HIT_START}, StopSel=${HIT_STOP}, MaxWords=24, MinWords=10, MaxFragments=2, FragmentDelimiter=" … "`;
 
+/** Rows read in the index's rank order and re-ranked with ts_rank beyond the page asked for. */
+const RANK_WINDOW = 100;
+
 let rankIndex: Promise<boolean> | undefined;
 
 /** Whether this database has the rank-order (RUM) index; asked once per process. */
@@ -69,17 +72,24 @@ export class PostgresSearchEngine implements SearchEngine {
       page = sql`select ${columns}, 0::float8 as score, left(d.body, 200) as headline from search_document d where ${where} order by d.updated_at desc, d.id limit ${limit} offset ${offset}`;
       matches = sql`select 1 from search_document d where ${where}`;
     } else {
-      const order = (await hasRankOrderIndex(this.database))
-        ? { score: sql`1 / nullif(d.search <=> q.query, 0)`, by: sql`d.search <=> q.query` }
-        : { score: sql`ts_rank(d.search, q.query)`, by: sql`ts_rank(d.search, q.query) desc` };
+      // With the rank-order index, read the first RANK_WINDOW rows in its order (it scores inside
+      // the index, never visiting the table), then order those by ts_rank, so scores are the same
+      // as without the index. Its own score equals ts_rank for one word and differs a little for
+      // several, hence the window. Without the index: ts_rank over every match.
+      const candidates = (await hasRankOrderIndex(this.database))
+        ? sql`select d.*, q.query from search_document d, ${tsquery} as q(query)
+              where ${where} and d.search @@ q.query
+              order by d.search <=> q.query
+              limit ${offset + limit + RANK_WINDOW}`
+        : sql`select d.*, q.query from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
       // Snippets only for the page: ts_headline re-parses the text, so it runs on the few rows shown.
       page = sql`
         select p.*, ts_headline('sinewright', p.body || E'\n' || p.block_values, p.query, ${HEADLINE_OPTIONS}) as headline
         from (
-          select ${columns}, d.body, d.block_values, q.query, (${order.score})::float8 as score
-          from search_document d, ${tsquery} as q(query)
-          where ${where} and d.search @@ q.query
-          order by ${order.by}, d.id
+          select c.id, c.kind, c.number, c.title, c.project_code, c.state, c.revision_label, c.body, c.block_values, c.query,
+            ts_rank(c.search, c.query)::float8 as score
+          from (${candidates}) c
+          order by score desc, c.id
           limit ${limit} offset ${offset}
         ) p
         order by p.score desc, p.id`;
