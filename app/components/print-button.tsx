@@ -6,3 +6,17 @@ export function PrintButton() {
     </button>
   );
 }
+
+/** A CSS string literal: quotes, backslashes and line breaks escaped. */
+function cssString(text: string): string {
+  return `"${text.replace(/[\\"]/g, "\\$&").replace(/[\r\n]+/g, " ")}"`;
+}
+
+/**
+ * The sheet's identity in the top margin of every printed page. Page margin boxes
+ * repeat reliably in print, unlike fixed elements; the text comes from the sheet.
+ */
+export function PrintTitleStrip({ left, center, right }: { left: string; center: string; right: string }) {
+  const css = `@page { @top-left { content: ${cssString(left)}; } @top-center { content: ${cssString(center)}; } @top-right { content: ${cssString(right)}; } }`;
+  return <style>{css}</style>;
+}

@@ -5,7 +5,7 @@ import type { Route } from "./+types/sheets.$number";
 import { HardwareCaution } from "~/components/caution";
 import { EmptyState } from "~/components/empty-state";
 import { FormError, Notice } from "~/components/form-fields";
-import { PrintButton } from "~/components/print-button";
+import { PrintButton, PrintTitleStrip } from "~/components/print-button";
 import { ReviewPanel } from "~/components/review-panel";
 import { SheetView } from "~/components/sheet-view";
 import { StatusBadge } from "~/components/status-badge";
@@ -165,13 +165,11 @@ export default function SheetPage() {
   return (
     <div className="sheet-page space-y-6">
       {revision ? (
-        <div className="print-running-head" aria-hidden="true">
-          <span>{teamName}</span>
-          <span>
-            {sheet.label} rev {revision.label} — {sheet.title}
-          </span>
-          <span>#{shortHash(revision.contentHash)}</span>
-        </div>
+        <PrintTitleStrip
+          left={teamName}
+          center={`${sheet.label} rev ${revision.label} — ${sheet.title}`}
+          right={`${revision.state === "verified" && stampValid ? "Verified" : "Not verified"} · #${shortHash(revision.contentHash)}`}
+        />
       ) : null}
       <nav aria-label="Breadcrumb" className="text-sm text-ink-faint">
         <Link to="/sheets">Sheets</Link> <span aria-hidden="true">/</span>{" "}
