@@ -319,7 +319,7 @@ export const searchDocument = pgTable(
     search: tsvector("search")
       .notNull()
       .generatedAlwaysAs(
-        sql`setweight(to_tsvector('sinewright'::regconfig, title), 'A') || setweight(to_tsvector('sinewright'::regconfig, keywords), 'B') || setweight(to_tsvector('sinewright'::regconfig, body), 'C') || setweight(to_tsvector('sinewright'::regconfig, block_values), 'D')`,
+        sql`setweight(to_tsvector('sinewright'::regconfig, title), 'A') || setweight(to_tsvector('sinewright'::regconfig, keywords), 'B') || setweight(to_tsvector('sinewright'::regconfig, sinewright_words_once(body)), 'C') || setweight(to_tsvector('sinewright'::regconfig, block_values), 'D')`,
       ),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull(),
   },

@@ -1,0 +1,2 @@
+ALTER TABLE "search_document" drop column "search";--> statement-breakpoint
+ALTER TABLE "search_document" ADD COLUMN "search" "tsvector" GENERATED ALWAYS AS (setweight(to_tsvector('sinewright'::regconfig, title), 'A') || setweight(to_tsvector('sinewright'::regconfig, keywords), 'B') || setweight(to_tsvector('sinewright'::regconfig, sinewright_words_once(body)), 'C') || setweight(to_tsvector('sinewright'::regconfig, block_values), 'D')) STORED NOT NULL;
