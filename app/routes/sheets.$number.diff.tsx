@@ -50,7 +50,7 @@ export default function SheetDiff() {
       </p>
       <ul className="mt-6 space-y-4">
         {changes.map((c) => (
-          <li key={c.blockId} className={`panel p-4 ${c.kind === "unchanged" ? "opacity-70" : ""}`}>
+          <li key={c.blockId} className={`panel p-4 ${c.kind === "unchanged" ? "border-dashed" : "border-l-4 border-l-copper"}`}>
             <h2 className="font-mono text-sm">
               {c.blockId} <span className="font-sans text-ink-faint">· {c.calculator} · {KIND_WORDS[c.kind]}</span>
             </h2>

@@ -10,7 +10,7 @@ afterAll(async () => {
   await browser?.close();
 });
 
-const APP_PAGES = ["/sheets", "/projects", "/search", "/team", "/settings"];
+const APP_PAGES = ["/desk", "/sheets", "/projects", "/projects/PUMP-3K", "/sheets/CS-0002", "/sheets/CS-0002/diff?from=A&to=B", "/sheets/CS-0007", "/search", "/calculators", "/team", "/settings"];
 
 describe("the foundation in a real browser", () => {
   it("shows an accessible landing page and sign-in page, all assets from this machine", async () => {

@@ -37,7 +37,7 @@ export async function openBrowser(viewport = { width: 1280, height: 900 }): Prom
   });
   const page = context.pages()[0] ?? (await context.newPage());
   page.on("console", (message) => {
-    if (message.type() === "error") pageErrors.push(message.text());
+    if (message.type() === "error") pageErrors.push(`${message.text()} (${message.location().url})`);
   });
   page.on("pageerror", (error) => pageErrors.push(error.message));
   return {
