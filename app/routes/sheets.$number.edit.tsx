@@ -8,7 +8,7 @@ import type { Route } from "./+types/sheets.$number.edit";
 import { HardwareCaution } from "~/components/caution";
 import { FormError, Notice } from "~/components/form-fields";
 import { SheetView } from "~/components/sheet-view";
-import { blockSnippet, nextBlockId, setBlockInput } from "~/lib/mdx";
+import { blockSnippet, checkSheetSource, nextBlockId, setBlockInput } from "~/lib/mdx";
 import { SOURCE_LIMITS, type SourceProblem } from "~/lib/mdx/types";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
@@ -99,25 +99,32 @@ export default function SheetEditor() {
     return () => clearTimeout(timer);
   }, [source, dirty, autosave, loaded.base?.id]);
 
+  // The latest source, even between renders: two quick edits must build on each other.
+  const latestSource = useRef(source);
   const edit = useCallback((next: string) => {
+    latestSource.current = next;
     setSource(next);
     setDirty(true);
   }, []);
 
+
   const onInputChange = useCallback(
     (blockId: string, key: string, value: string) => {
-      if (!prepared.ok) return;
-      const block = prepared.blocks.find((b) => b.id === blockId);
+      const current = latestSource.current;
+      // The preview may lag behind the source (deferred); block positions must come from the current text.
+      const checked = prepared.ok && deferredSource === current ? prepared : checkSheetSource(current, "sheet");
+      if (!checked.ok) return;
+      const block = checked.blocks.find((b) => b.id === blockId);
       if (!block) return;
       try {
-        edit(setBlockInput(source, block, key, value));
+        edit(setBlockInput(current, block, key, value));
         setWriteBackError(null);
       } catch (error) {
         // The source could not take this value (e.g. a line break): say so instead of losing it silently.
         setWriteBackError(`${blockId}.${key}: ${error instanceof Error ? error.message : String(error)}`);
       }
     },
-    [prepared, source, edit],
+    [prepared, deferredSource, edit],
   );
 
   const insertBlock = (calculatorId: string) => {
