@@ -182,6 +182,7 @@ async function main() {
     }
     const appTimes: number[] = [];
     const plainTimes: number[] = [];
+    const slowest: { query: string; ms: number }[] = [];
     let overlapSum = 0;
     let tiedSum = 0;
     let compared = 0;
@@ -190,6 +191,7 @@ async function main() {
       let t = performance.now();
       const result = await engine.search(teamId, q, { limit: 10 });
       appTimes.push(performance.now() - t);
+      slowest.push({ query: q, ms: appTimes.at(-1)! });
       t = performance.now();
       const reference = await plain(q);
       plainTimes.push(performance.now() - t);
@@ -211,6 +213,8 @@ async function main() {
     console.log(`  app search (rank order, snippets, capped total)  p50 ${ms(percentile(appTimes, 0.5))}  p95 ${ms(percentile(appTimes, 0.95))}   target p95 ≤ 30 ms`);
     console.log(`  plain GIN + ts_rank                              p50 ${ms(percentile(plainTimes, 0.5))}  p95 ${ms(percentile(plainTimes, 0.95))}`);
     console.log(`  top-10 overlap with the plain query: ${((100 * overlapSum) / Math.max(1, compared)).toFixed(1)} % of its ids on average (worst ${worst.overlap}/10, "${worst.query}");`);
+    slowest.sort((a, b) => b.ms - a.ms);
+    console.log(`  slowest app queries: ${slowest.slice(0, 6).map((s) => `"${s.query}" ${ms(s.ms)}`).join(", ")}`);
     console.log(`    counting rank ties as equal: ${((100 * tiedSum) / Math.max(1, compared)).toFixed(1)} % of the app's top 10 score at least the plain 10th`);
   } finally {
     await pool.end();

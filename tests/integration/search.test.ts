@@ -135,6 +135,7 @@ describe.each(engines)("search contract on %s", (_name, engineOf) => {
   it("finds sheets by calculator id as typed", async () => {
     expect(await numbers("quasi-square")).toEqual([ids.steppedWave!.number]);
     expect((await numbers("lc-filter")).sort()).toEqual([ids.outputFilter!.number, ids.groundPower!.number, ids.lowCorner!.number].sort());
+    expect(await engineOf().search(larkA.teamId, "lc-filter")).toMatchObject({ total: 3, totalIsEstimate: false });
   });
 
   it("finds block values the way engineers type them", async () => {

@@ -55,6 +55,7 @@ interface Row extends Record<string, unknown> {
   revision_label: string | null;
   score: number;
   headline: string;
+  candidates?: number;
 }
 
 export class PostgresSearchEngine implements SearchEngine {
@@ -70,9 +71,9 @@ export class PostgresSearchEngine implements SearchEngine {
     // parts as a phrase; the whole word is indexed wherever the parts are, so it alone finds
     // the same sheets without the costly position checks of a phrase. Quoted phrases are
     // left alone: their words chain on with the same operator.
-    const tsquery = text.includes('"')
-      ? sql`(select websearch_to_tsquery('sinewright', ${text}))`
-      : sql`(select regexp_replace(websearch_to_tsquery('sinewright', ${text})::text, ${COMPOUND_PHRASE}, ${"\\1"}, 'g')::tsquery)`;
+    // Matching and the index's order use that form; the scores shown, as typed.
+    const ranking = sql`websearch_to_tsquery('sinewright', ${text})`;
+    const tsquery = text.includes('"') ? sql`(select ${ranking})` : sql`(select regexp_replace(${ranking}::text, ${COMPOUND_PHRASE}, ${"\\1"}, 'g')::tsquery)`;
     const columns = sql`d.id, d.kind, d.number, d.title, d.project_code, d.state, d.revision_label`;
     let page: SQL;
     let matches: SQL;
@@ -86,17 +87,17 @@ export class PostgresSearchEngine implements SearchEngine {
       // as without the index. Its own score equals ts_rank for one word and differs a little for
       // several, hence the window. Without the index: ts_rank over every match.
       const candidates = (await hasRankOrderIndex(this.database))
-        ? sql`select d.*, q.query from search_document d, ${tsquery} as q(query)
+        ? sql`select d.* from search_document d, ${tsquery} as q(query)
               where ${where} and d.search @@ q.query
               order by d.search <=> q.query
               limit ${offset + limit + RANK_WINDOW}`
-        : sql`select d.*, q.query from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
+        : sql`select d.* from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
       // Snippets only for the page: ts_headline re-parses the text, so it runs on the few rows shown.
       page = sql`
-        select p.*, ts_headline('sinewright', p.body || E'\n' || p.block_values, p.query, ${HEADLINE_OPTIONS}) as headline
+        select p.*, ts_headline('sinewright', p.body || E'\n' || p.block_values, ${ranking}, ${HEADLINE_OPTIONS}) as headline
         from (
-          select c.id, c.kind, c.number, c.title, c.project_code, c.state, c.revision_label, c.body, c.block_values, c.query,
-            ts_rank(c.search, c.query)::float8 as score
+          select c.id, c.kind, c.number, c.title, c.project_code, c.state, c.revision_label, c.body, c.block_values,
+            ts_rank(c.search, ${ranking})::float8 as score, count(*) over ()::int as candidates
           from (${candidates}) c
           order by score desc, c.id
           limit ${limit} offset ${offset}
@@ -104,17 +105,8 @@ export class PostgresSearchEngine implements SearchEngine {
         order by p.score desc, p.id`;
       matches = sql`select 1 from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
     }
-    const [rows, counted] = await Promise.all([
-      this.database.execute<Row>(page),
-      // Counted through the GIN index's bitmap: the planner would otherwise read the table
-      // in order, testing every row's vector, to find the first thousand matches.
-      this.database.transaction(async (tx) => {
-        await tx.execute(sql`set local enable_seqscan = off`);
-        await tx.execute(sql`set local enable_indexscan = off`);
-        return tx.execute<{ n: number }>(sql`select count(*)::int as n from (${matches} limit ${TOTAL_CAP + 1}) m`);
-      }),
-    ]);
-    const n = counted.rows[0]?.n ?? 0;
+    const rows = await this.database.execute<Row>(page);
+    const counted = await this.countMatches(text, rows.rows, matches, offset + limit + RANK_WINDOW);
     return {
       hits: rows.rows.map((r) => ({
         id: r.id,
@@ -127,10 +119,28 @@ export class PostgresSearchEngine implements SearchEngine {
         snippet: markedToSegments(r.headline ?? "", HIT_START, HIT_STOP),
         score: Number(r.score) || 0,
       })),
-      total: Math.min(n, TOTAL_CAP),
-      totalIsEstimate: n > TOTAL_CAP,
+      ...counted,
       engine: "postgres",
     };
+  }
+
+  /**
+   * How many match. Counting every match of a common word costs as much as ranking them all,
+   * so: exact when the ranked rows were all the matches, else PostgreSQL's own estimate
+   * (as Meilisearch gives one); with no words, an exact count up to TOTAL_CAP.
+   */
+  private async countMatches(text: string, page: Row[], matches: SQL, window: number): Promise<{ total: number; totalIsEstimate: boolean }> {
+    const candidates = page[0]?.candidates;
+    if (text && candidates !== undefined) {
+      const complete = !(await hasRankOrderIndex(this.database)) || candidates < window;
+      if (complete) return { total: candidates, totalIsEstimate: false };
+      const plan = await this.database.execute<{ "QUERY PLAN": [{ Plan: { "Plan Rows": number } }] }>(sql`explain (format json) ${matches}`);
+      const estimate = Math.round(plan.rows[0]?.["QUERY PLAN"][0]?.Plan["Plan Rows"] ?? 0);
+      return { total: Math.max(estimate, candidates), totalIsEstimate: true };
+    }
+    const counted = await this.database.execute<{ n: number }>(sql`select count(*)::int as n from (${matches} limit ${TOTAL_CAP + 1}) m`);
+    const n = counted.rows[0]?.n ?? 0;
+    return { total: Math.min(n, TOTAL_CAP), totalIsEstimate: n > TOTAL_CAP };
   }
 
   async index(doc: SearchDocument): Promise<void> {

@@ -39,7 +39,7 @@ export interface SearchHit {
 
 export interface SearchResult {
   hits: SearchHit[];
-  /** Matches in all; at most TOTAL_CAP (then `totalIsEstimate`). */
+  /** Matches in all. For very common words an engine's estimate (`totalIsEstimate`), e.g. "about 28,000". */
   total: number;
   totalIsEstimate: boolean;
   engine: "postgres" | "meilisearch";
@@ -54,7 +54,7 @@ export interface SearchEngine {
   remove(id: string): Promise<void>;
 }
 
-/** Counting every match of a common word costs as much as ranking them all; beyond this, totals are "more than". */
+/** Exact counts stop here; beyond, a total is "more than". */
 export const TOTAL_CAP = 1000;
 
 export function pageOf(filters: SearchFilters): { limit: number; offset: number } {
