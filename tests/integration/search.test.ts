@@ -119,6 +119,7 @@ beforeAll(async () => {
 
 const engines: [string, () => SearchEngine][] = [
   ["PostgreSQL", () => new PostgresSearchEngine()],
+  ["PostgreSQL without the RUM extension", () => new PostgresSearchEngine(db(), { rankOrderIndex: false })],
   ["Meilisearch (local stand-in)", () => meilisearchEngine()!],
 ];
 
@@ -151,6 +152,9 @@ describe.each(engines)("search contract on %s", (_name, engineOf) => {
     expect(await numbers("lc-filter", { projectId: pumpProjectId })).toEqual([ids.outputFilter!.number]);
     expect(await numbers("", { calculator: "quasi-square" })).toEqual([ids.steppedWave!.number]);
     expect(await numbers("", { authorId: other.author.id })).toEqual([]);
+    expect((await numbers("lc-filter", { authorId: larkA.author.id })).length).toBe(3);
+    expect(await numbers("lc-filter", { updatedFrom: new Date(Date.now() + 60_000) })).toEqual([]);
+    expect((await numbers("lc-filter", { updatedBefore: new Date(Date.now() + 60_000) })).length).toBe(3);
   });
 
   it("shows state and revision, and a snippet with the matches marked", async () => {
@@ -221,6 +225,17 @@ describe("search through the app", () => {
     expect(outcome).toMatchObject({ meilisearch: true });
     expect(outcome.documents).toBeGreaterThanOrEqual(5);
     expect((await search(larkA.teamId, "resonance")).hits.map((h) => h.sheetNumber)).toEqual([ids.outputFilter!.number]);
+  });
+});
+
+describe("taking a sheet out of search", () => {
+  it("removes it from PostgreSQL at once and from Meilisearch through the outbox", async () => {
+    const { removeFromSearch } = await import("../../app/.server/search");
+    await db().transaction((tx) => removeFromSearch(tx, ids.lowCorner!.id));
+    expect((await new PostgresSearchEngine().search(larkA.teamId, "slow corner")).hits).toEqual([]);
+    expect((await meilisearchEngine()!.search(larkA.teamId, "slow corner")).hits.map((h) => h.id)).toEqual([ids.lowCorner!.id]);
+    await drainSearchCopies();
+    expect((await meilisearchEngine()!.search(larkA.teamId, "slow corner")).hits).toEqual([]);
   });
 });
 
