@@ -38,16 +38,24 @@ export class FallbackSearchEngine implements SearchEngine {
   }
 }
 
-/** The Meilisearch engine when configured (clients are stateless HTTP handles). */
+let meili: { key: string; engine: MeilisearchEngine } | undefined;
+
+/**
+ * The Meilisearch engine when configured. One per process, so its index settings are sent
+ * once rather than before every copy (a settings change can make Meilisearch re-index);
+ * it holds an HTTP client and nothing the other servers would need to share.
+ */
 export function meilisearchEngine(): MeilisearchEngine | undefined {
   const { MEILI_HOST, MEILI_KEY, MEILI_INDEX } = config();
   if (!MEILI_HOST) return undefined;
-  return new MeilisearchEngine({ host: MEILI_HOST, apiKey: MEILI_KEY, indexName: MEILI_INDEX });
+  const key = `${MEILI_HOST}|${MEILI_INDEX}`;
+  if (meili?.key !== key) meili = { key, engine: new MeilisearchEngine({ host: MEILI_HOST, apiKey: MEILI_KEY, indexName: MEILI_INDEX }) };
+  return meili.engine;
 }
 
 /** The engine searches go through: PostgreSQL, or Meilisearch with PostgreSQL as its fallback. */
 export function searchEngine(): SearchEngine {
-  const meili = meilisearchEngine();
+  const primary = meilisearchEngine();
   const postgres = new PostgresSearchEngine();
-  return meili ? new FallbackSearchEngine(meili, postgres, (error) => console.warn(`[search] Meilisearch unreachable, answering from PostgreSQL: ${String(error)}`)) : postgres;
+  return primary ? new FallbackSearchEngine(primary, postgres, (error) => console.warn(`[search] Meilisearch unreachable, answering from PostgreSQL: ${String(error)}`)) : postgres;
 }
