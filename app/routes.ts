@@ -34,6 +34,8 @@ export default [
     route("calculators", "routes/api.v1.calculators.ts"),
     route("calculators/:calculatorId/evaluate", "routes/api.v1.calculators.$calculatorId.evaluate.ts"),
     route("evaluate", "routes/api.v1.evaluate.ts"),
+    route("search", "routes/api.v1.search.ts"),
+    route("blocks", "routes/api.v1.blocks.ts"),
   ]),
 
   route("api/*", "routes/api.not-found.ts", { id: "api-not-found" }),

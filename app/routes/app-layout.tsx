@@ -1,4 +1,5 @@
-import { Form, NavLink, Outlet, redirect, useLoaderData } from "react-router";
+import { useEffect } from "react";
+import { Form, NavLink, Outlet, redirect, useLoaderData, useNavigate } from "react-router";
 import type { Route } from "./+types/app-layout";
 import { Wordmark } from "~/components/brand-mark";
 import { getSignedIn, membershipsOf } from "~/.server/access";
@@ -25,6 +26,21 @@ const NAV = [
 
 export default function AppLayout() {
   const { user, team, teams, unread } = useLoaderData<typeof loader>();
+  const navigate = useNavigate();
+  // "/" anywhere outside a text field goes to the search box.
+  useEffect(() => {
+    const onKey = (event: KeyboardEvent) => {
+      if (event.key !== "/" || event.ctrlKey || event.metaKey || event.altKey) return;
+      const target = event.target as HTMLElement | null;
+      if (target && (target.isContentEditable || ["INPUT", "TEXTAREA", "SELECT"].includes(target.tagName))) return;
+      event.preventDefault();
+      const box = document.getElementById("search-box");
+      if (box) box.focus();
+      else navigate("/search?focus=1");
+    };
+    window.addEventListener("keydown", onKey);
+    return () => window.removeEventListener("keydown", onKey);
+  }, [navigate]);
   return (
     <div className="min-h-screen">
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-3 focus:top-3 focus:z-10 focus:rounded focus:bg-sheet focus:px-3 focus:py-2">

@@ -1,0 +1,36 @@
+import type { Route } from "./+types/api.v1.search";
+import { searchQuery } from "~/lib/forms/search";
+import { sheetNumberLabel } from "~/lib/sheets/numbering";
+import { requireMember } from "~/.server/access";
+import { methodNotAllowed } from "~/.server/api";
+import { runSearch } from "~/.server/search-query";
+
+/** GET /api/v1/search?q=… — the team's sheets ranked for the query, with highlighted snippets as data. */
+export async function loader({ request }: Route.LoaderArgs) {
+  const me = await requireMember(request, "viewer");
+  const query = searchQuery.parse(Object.fromEntries(new URL(request.url).searchParams));
+  const result = await runSearch(me, query);
+  if (!result) return Response.json({ query: "", hits: [], total: 0, engine: null });
+  return Response.json({
+    query: query.q,
+    engine: result.engine,
+    notice: result.notice ?? null,
+    total: result.total,
+    totalIsEstimate: result.totalIsEstimate,
+    hits: result.hits.map((h) => ({
+      kind: h.kind,
+      sheet: h.sheetNumber ? sheetNumberLabel(h.sheetNumber) : null,
+      title: h.title,
+      project: h.projectCode,
+      state: h.state,
+      revision: h.revisionLabel,
+      snippet: h.snippet,
+      url: h.sheetNumber ? `/sheets/${sheetNumberLabel(h.sheetNumber)}${h.revisionLabel ? `/revisions/${h.revisionLabel}` : ""}` : null,
+    })),
+  });
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  await requireMember(request, "viewer");
+  return methodNotAllowed("GET");
+}
