@@ -107,10 +107,10 @@ export default function Search() {
   return (
     <>
       <PageHeader eyebrow={data.teamName} title="Search" />
-      <Form method="get" role="search" className="panel grid gap-3 p-4 lg:grid-cols-[1fr_auto]">
+      <Form method="get" role="search" className="panel space-y-3 p-4">
         <div>
           <label htmlFor="search-box" className="field-label">
-            Search sheets <span className="font-normal text-ink-faint">(press / anywhere to come here)</span>
+            Search sheets <span className="font-normal text-ink-faint">— press / anywhere to come here</span>
           </label>
           <input
             ref={box}
