@@ -36,6 +36,7 @@ export default [
     route("evaluate", "routes/api.v1.evaluate.ts"),
     route("search", "routes/api.v1.search.ts"),
     route("blocks", "routes/api.v1.blocks.ts"),
+    route("sheets/:number/revisions/:rev", "routes/api.v1.sheets.$number.revisions.$rev.ts"),
   ]),
 
   route("api/*", "routes/api.not-found.ts", { id: "api-not-found" }),

@@ -93,7 +93,7 @@ export async function sheetAuthors(teamId: string) {
 
 export class SheetRuleError extends Error {}
 
-export async function createSheet(me: Member, input: { title: string; projectId: string | null; tags: string[] }) {
+export async function createSheet(me: Member, input: { title: string; projectId: string | null; tags: string[]; derivedFromRevisionId?: string }) {
   return db().transaction(async (tx) => {
     // Numbers are handed out one at a time per team: lock the team's row while taking the next.
     await tx.select({ id: organization.id }).from(organization).where(eq(organization.id, me.team.teamId)).for("update");
@@ -107,7 +107,7 @@ export async function createSheet(me: Member, input: { title: string; projectId:
       .where(eq(calcSheet.teamId, me.team.teamId))) as [{ next: number }];
     const [sheet] = await tx
       .insert(calcSheet)
-      .values({ teamId: me.team.teamId, number: next, title: input.title, projectId: input.projectId, tags: input.tags, createdBy: me.user.id })
+      .values({ teamId: me.team.teamId, number: next, title: input.title, projectId: input.projectId, tags: input.tags, createdBy: me.user.id, derivedFromRevisionId: input.derivedFromRevisionId ?? null })
       .returning();
     await recordAudit(
       { teamId: me.team.teamId, actorId: me.user.id, action: "sheet.created", subjectType: "sheet", subjectId: sheet!.id, detail: { number: sheetNumberLabel(next), title: input.title } },
@@ -288,4 +288,51 @@ export async function updateSheetDetails(me: Member, sheetId: string, input: { t
     .where(and(eq(calcSheet.id, sheetId), eq(calcSheet.teamId, me.team.teamId)));
   await indexSheet(db(), sheetId); // search: title, project and tags are searched
   await recordAudit({ teamId: me.team.teamId, actorId: me.user.id, action: "sheet.details-changed", subjectType: "sheet", subjectId: sheetId, detail: { title: input.title } });
+}
+
+/**
+ * Reuses a revision in a project: a new sheet whose draft holds the revision's source
+ * (and so its inputs), linked to where it came from. It has no revision yet and needs
+ * its own check before anyone may rely on it.
+ */
+export async function reuseRevision(me: Member, revisionId: string, projectId: string | null) {
+  const [origin] = await db()
+    .select({ revision: sheetRevision, sheet: calcSheet })
+    .from(sheetRevision)
+    .innerJoin(calcSheet, eq(calcSheet.id, sheetRevision.sheetId))
+    .where(and(eq(sheetRevision.id, revisionId), eq(sheetRevision.teamId, me.team.teamId)));
+  if (!origin) throw new SheetRuleError("That revision does not exist in this team.");
+  const sheet = await createSheet(me, { title: origin.sheet.title, projectId, tags: origin.sheet.tags, derivedFromRevisionId: origin.revision.id });
+  await saveDraft(sheet.id, me.user.id, origin.revision.source, null);
+  await recordAudit({
+    teamId: me.team.teamId,
+    actorId: me.user.id,
+    action: "sheet.reused",
+    subjectType: "sheet",
+    subjectId: origin.sheet.id,
+    detail: { label: origin.revision.label, into: sheetNumberLabel(sheet.number) },
+  });
+  return sheet;
+}
+
+/** Where a sheet came from, and where it has been reused. */
+export async function sheetLineage(sheetId: string, derivedFromRevisionId: string | null) {
+  const [from] = derivedFromRevisionId
+    ? await db()
+        .select({ number: calcSheet.number, title: calcSheet.title, label: sheetRevision.label })
+        .from(sheetRevision)
+        .innerJoin(calcSheet, eq(calcSheet.id, sheetRevision.sheetId))
+        .where(eq(sheetRevision.id, derivedFromRevisionId))
+    : [];
+  const reusedIn = await db()
+    .select({ number: calcSheet.number, title: calcSheet.title, projectCode: project.code, fromLabel: sheetRevision.label })
+    .from(calcSheet)
+    .innerJoin(sheetRevision, eq(sheetRevision.id, calcSheet.derivedFromRevisionId))
+    .leftJoin(project, eq(project.id, calcSheet.projectId))
+    .where(eq(sheetRevision.sheetId, sheetId))
+    .orderBy(asc(calcSheet.number));
+  return {
+    derivedFrom: from ? { sheet: sheetNumberLabel(from.number), title: from.title, revision: from.label } : null,
+    reusedIn: reusedIn.map((r) => ({ sheet: sheetNumberLabel(r.number), title: r.title, project: r.projectCode, fromRevision: r.fromLabel })),
+  };
 }

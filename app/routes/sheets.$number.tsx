@@ -1,5 +1,5 @@
 import type { Element, Root } from "hast";
-import { data, Form, Link, useActionData, useLoaderData } from "react-router";
+import { data, Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/sheets.$number";
 import { HardwareCaution } from "~/components/caution";
@@ -17,7 +17,9 @@ import { requireMember, type Member } from "~/.server/access";
 import { roleAtLeast } from "~/.server/roles";
 import { addComment, checkIntegrity, eligibleCheckers, recordCheckValues, resolveComment, returnRevision, ReviewRuleError, revisionReview, sheetAudit, stampRevision, submitForCheck } from "~/.server/review";
 import { storedEvaluation } from "~/.server/sheet-view";
-import { getRevision, getRevisionById, getSheet, listRevisions, revisionBlocks } from "~/.server/sheets";
+import { listProjects } from "~/.server/projects";
+import { getRevision, getRevisionById, getSheet, listRevisions, reuseRevision, revisionBlocks, sheetLineage, SheetRuleError } from "~/.server/sheets";
+import { sheetNumberLabel } from "~/lib/sheets/numbering";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `${data.sheet.label} ${data.sheet.title} · Sinewright` : "Sheet · Sinewright" }];
 
@@ -99,6 +101,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     blocks: rows.map((r) => ({ id: r.blockId, calculator: r.calculator, inputs: r.inputs as Record<string, string> })),
     audit: (await sheetAudit(sheet.id, 40)).map((e) => ({ id: e.id, action: e.action, detail: e.detail as Record<string, unknown>, createdAt: e.createdAt.toISOString(), actorName: e.actorName })),
     revisions: revisions.map((r) => ({ label: r.label, state: r.state, note: r.note, authorName: r.authorName, createdAt: r.createdAt.toISOString(), contentHash: r.contentHash })),
+    lineage: await sheetLineage(sheet.id, sheet.derivedFromRevisionId),
+    projects: canWrite ? (await listProjects(me.team.teamId)).map((p) => ({ id: p.id, label: `${p.code} — ${p.name}` })) : [],
   };
 }
 
@@ -112,6 +116,7 @@ const reviewAction = z.discriminatedUnion("intent", [
   }),
   z.object({ intent: z.literal("resolve"), commentId: z.string().min(1) }),
   z.object({ intent: z.literal("return") }),
+  z.object({ intent: z.literal("reuse"), projectId: z.string().default("") }),
   z.object({ intent: z.literal("stamp") }),
   z.object({
     intent: z.literal("check-values"),
@@ -142,6 +147,10 @@ export async function action({ request, params }: Route.ActionArgs) {
       case "return":
         await returnRevision(me, revision.id);
         return { ok: true, message: `Revision ${revision.label} is returned to its author with your comments.` };
+      case "reuse": {
+        const created = await reuseRevision(me, revision.id, input.projectId || null);
+        throw redirect(`/sheets/${sheetNumberLabel(created.number)}/edit`);
+      }
       case "stamp":
         await stampRevision(me, revision.id);
         return { ok: true, message: `Revision ${revision.label} is verified and stamped.` };
@@ -153,12 +162,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
   } catch (error) {
     if (error instanceof ReviewRuleError) return data({ ok: false, message: error.message }, { status: error.status });
+    if (error instanceof SheetRuleError) return data({ ok: false, message: error.message }, { status: 400 });
     throw error;
   }
 }
 
 export default function SheetPage() {
-  const { teamName, me, canWrite, sheet, revision, stored, revisions, integrity, review, can, checkers, anchors, blocks, audit } = useLoaderData<typeof loader>();
+  const { teamName, me, canWrite, sheet, revision, stored, revisions, integrity, review, can, checkers, anchors, blocks, audit, lineage, projects } = useLoaderData<typeof loader>();
   const result = useActionData<typeof action>();
   const projectLabel = sheet.projectCode ? `${sheet.projectCode} — ${sheet.projectName}` : "Team library";
   const stampValid = Boolean(review?.stamp && integrity?.stampValid);
@@ -246,6 +256,33 @@ export default function SheetPage() {
       ) : null}
       </div>
       {sheet.tags.length > 0 ? <p className="text-sm text-ink-faint">Tags: {sheet.tags.join(", ")}</p> : null}
+      {lineage.derivedFrom || lineage.reusedIn.length > 0 ? (
+        <section aria-label="Lineage" className="text-sm text-ink-soft">
+          {lineage.derivedFrom ? (
+            <p>
+              Derived from{" "}
+              <Link to={`/sheets/${lineage.derivedFrom.sheet}/revisions/${lineage.derivedFrom.revision}`} className="font-mono">
+                {`${lineage.derivedFrom.sheet} rev ${lineage.derivedFrom.revision}`}
+              </Link>{" "}
+              ({lineage.derivedFrom.title}); it needs its own check.
+            </p>
+          ) : null}
+          {lineage.reusedIn.length > 0 ? (
+            <p>
+              Reused in:{" "}
+              {lineage.reusedIn.map((r, i) => (
+                <span key={r.sheet}>
+                  {i > 0 ? ", " : ""}
+                  <Link to={`/sheets/${r.sheet}`} className="font-mono">
+                    {r.sheet}
+                  </Link>
+                  {` (${r.project ?? "library"}, from rev ${r.fromRevision})`}
+                </span>
+              ))}
+            </p>
+          ) : null}
+        </section>
+      ) : null}
       <HardwareCaution compact />
       {revision && stored ? (
         <article aria-label={`Sheet ${sheet.label} revision ${revision.label}`} className="panel p-5 sm:p-8">
@@ -268,6 +305,27 @@ export default function SheetPage() {
           anchors={anchors}
           blocks={blocks}
         />
+      ) : null}
+      {revision && canWrite ? (
+        <Form method="post" className="panel flex flex-col gap-3 p-4 sm:flex-row sm:items-end print:hidden">
+          <input type="hidden" name="intent" value="reuse" />
+          <div className="flex-1">
+            <label htmlFor="reuse-project" className="field-label">
+              Reuse revision {revision.label} in project
+            </label>
+            <select id="reuse-project" name="projectId" className="field-input">
+              <option value="">Team library (no project)</option>
+              {projects.map((p) => (
+                <option key={p.id} value={p.id}>
+                  {p.label}
+                </option>
+              ))}
+            </select>
+          </div>
+          <button type="submit" className="btn btn-quiet">
+            Reuse as a new sheet
+          </button>
+        </Form>
       ) : null}
       {revisions.length > 0 ? (
         <section aria-labelledby="history-heading" className="panel p-5 print:hidden">

@@ -136,3 +136,23 @@ describe("engine API", () => {
     expect((await response.json()).error).toMatch(/No such API endpoint/);
   });
 });
+
+describe("stable revision links", () => {
+  it("returns a revision's inputs, results, state, hash and stamp as JSON, and 404 with a reason otherwise", async () => {
+    const viewer = await new Visitor().signIn("viewer@example.com");
+    const response = await viewer.get("/api/v1/sheets/CS-0002/revisions/B");
+    expect(response.status).toBe(200);
+    const body = await response.json();
+    expect(body).toMatchObject({ sheet: "CS-0002", revision: "B", state: "verified", latest: true, integrity: { hashMatches: true, stampValid: true } });
+    expect(body.contentHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(body.stamp.contentHash).toBe(body.contentHash);
+    expect(body.blocks.find((b: { id: string }) => b.id === "dc1").inputs.rippleVpp).toBe("12 V");
+    const older = await (await viewer.get("/api/v1/sheets/CS-0002/revisions/A")).json();
+    expect(older).toMatchObject({ revision: "A", state: "returned", latest: false, stamp: null });
+    expect((await viewer.get("/api/v1/sheets/CS-0002/revisions/Z")).status).toBe(404);
+    expect((await viewer.get("/api/v1/sheets/CS-9999/revisions/A")).status).toBe(404);
+    expect((await new Visitor().get("/api/v1/sheets/CS-0002/revisions/B")).status).toBe(401);
+    const outsider = await signUpWithTeam("revision-outsider");
+    expect((await outsider.visitor.get("/api/v1/sheets/CS-0002/revisions/B")).status).toBe(404);
+  });
+});

@@ -92,6 +92,8 @@ export const calcSheet = pgTable(
     projectId: text("project_id").references(() => project.id, { onDelete: "set null" }),
     tags: text("tags").array().notNull().default(sql`'{}'::text[]`),
     latestRevisionId: text("latest_revision_id"),
+    /** Lineage: the revision this sheet was reused from (it still needs its own check). */
+    derivedFromRevisionId: text("derived_from_revision_id"),
     createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
     createdAt: createdAt(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),

@@ -1,0 +1,1 @@
+ALTER TABLE "calc_sheet" ADD COLUMN "derived_from_revision_id" text;
