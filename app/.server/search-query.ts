@@ -4,7 +4,23 @@ import { getCalculator } from "~/lib/calc/registry";
 import type { Dimension } from "~/lib/calc/types";
 import { parseQuantity, SI_UNIT } from "~/lib/calc/units";
 import type { Member } from "./access";
-import { findBlocks, search, type SearchFilters } from "./search";
+import { sheetNumberLabel } from "~/lib/sheets/numbering";
+import { findBlocks, search, type SearchFilters, type SearchHit } from "./search";
+
+/** A hit as pages and the JSON API show it: the sheet's label and a link to the revision found. */
+export function hitView(hit: SearchHit) {
+  const sheet = hit.sheetNumber ? sheetNumberLabel(hit.sheetNumber) : null;
+  return {
+    kind: hit.kind,
+    sheet,
+    title: hit.title,
+    project: hit.projectCode,
+    state: hit.state,
+    revision: hit.revisionLabel,
+    snippet: hit.snippet,
+    url: sheet ? `/sheets/${sheet}${hit.revisionLabel ? `/revisions/${hit.revisionLabel}` : ""}` : null,
+  };
+}
 
 export function searchFilters(query: z.infer<typeof searchQuery>): SearchFilters {
   return {

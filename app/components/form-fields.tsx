@@ -52,3 +52,33 @@ export function Notice({ children, tone = "info" }: { children: React.ReactNode;
     </div>
   );
 }
+
+interface SelectFieldProps {
+  name: string;
+  label: string;
+  options: { value: string; label: string }[];
+  /** The first option, meaning "no filter" (value ""). */
+  anyLabel?: string;
+  defaultValue?: string | undefined;
+  className?: string;
+}
+
+/** A labelled select, as the list filters use it. */
+export function SelectField({ name, label, options, anyLabel, defaultValue, className }: SelectFieldProps) {
+  const id = useId();
+  return (
+    <div className={className}>
+      <label className="field-label" htmlFor={id}>
+        {label}
+      </label>
+      <select id={id} name={name} defaultValue={defaultValue ?? ""} className="field-input">
+        {anyLabel !== undefined ? <option value="">{anyLabel}</option> : null}
+        {options.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+    </div>
+  );
+}

@@ -1,9 +1,8 @@
 import type { Route } from "./+types/api.v1.search";
 import { searchQuery } from "~/lib/forms/search";
-import { sheetNumberLabel } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
 import { methodNotAllowed } from "~/.server/api";
-import { runSearch } from "~/.server/search-query";
+import { hitView, runSearch } from "~/.server/search-query";
 
 /** GET /api/v1/search?q=… — the team's sheets ranked for the query, with highlighted snippets as data. */
 export async function loader({ request }: Route.LoaderArgs) {
@@ -17,16 +16,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     notice: result.notice ?? null,
     total: result.total,
     totalIsEstimate: result.totalIsEstimate,
-    hits: result.hits.map((h) => ({
-      kind: h.kind,
-      sheet: h.sheetNumber ? sheetNumberLabel(h.sheetNumber) : null,
-      title: h.title,
-      project: h.projectCode,
-      state: h.state,
-      revision: h.revisionLabel,
-      snippet: h.snippet,
-      url: h.sheetNumber ? `/sheets/${sheetNumberLabel(h.sheetNumber)}${h.revisionLabel ? `/revisions/${h.revisionLabel}` : ""}` : null,
-    })),
+    hits: result.hits.map(hitView),
   });
 }
 

@@ -2,7 +2,7 @@ import { useEffect, useRef, useState } from "react";
 import { Form, Link, useFetcher, useLoaderData, useSearchParams } from "react-router";
 import type { Route } from "./+types/search";
 import { EmptyState, PageHeader } from "~/components/empty-state";
-import { Notice } from "~/components/form-fields";
+import { Notice, SelectField } from "~/components/form-fields";
 import { StatusBadge } from "~/components/status-badge";
 import { calculators } from "~/lib/calc/registry";
 import { blockQuery, searchQuery } from "~/lib/forms/search";
@@ -10,7 +10,7 @@ import { sheetNumberLabel } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
 import { listProjects } from "~/.server/projects";
 import { BlockQueryError } from "~/.server/search";
-import { BlockSearchInputError, runBlockSearch, runSearch } from "~/.server/search-query";
+import { BlockSearchInputError, hitView, runBlockSearch, runSearch } from "~/.server/search-query";
 import { sheetAuthors } from "~/.server/sheets";
 import type { loader as apiLoader } from "./api.v1.search";
 
@@ -44,16 +44,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       }
     }
   }
-  const hits: Hit[] =
-    result?.hits.map((h) => ({
-      sheet: h.sheetNumber ? sheetNumberLabel(h.sheetNumber) : null,
-      title: h.title,
-      project: h.projectCode,
-      state: h.state,
-      revision: h.revisionLabel,
-      snippet: h.snippet,
-      url: h.sheetNumber ? `/sheets/${sheetNumberLabel(h.sheetNumber)}` : null,
-    })) ?? [];
+  const hits: Hit[] = result?.hits.map(hitView) ?? [];
   return {
     teamName: me.team.teamName,
     query,
@@ -128,45 +119,9 @@ export default function Search() {
           <label className="flex items-center gap-2 text-sm">
             <input type="checkbox" name="verified" value="1" defaultChecked={Boolean(data.query.verified)} /> Verified only
           </label>
-          <div>
-            <label htmlFor="search-project" className="field-label">
-              Project
-            </label>
-            <select id="search-project" name="project" defaultValue={data.query.project ?? ""} className="field-input">
-              <option value="">Any</option>
-              {data.projects.map((p) => (
-                <option key={p.id} value={p.id}>
-                  {p.label}
-                </option>
-              ))}
-            </select>
-          </div>
-          <div>
-            <label htmlFor="search-calculator" className="field-label">
-              Calculator
-            </label>
-            <select id="search-calculator" name="calculator" defaultValue={data.query.calculator ?? ""} className="field-input">
-              <option value="">Any</option>
-              {data.calculators.map((c) => (
-                <option key={c.id} value={c.id}>
-                  {c.title}
-                </option>
-              ))}
-            </select>
-          </div>
-          <div>
-            <label htmlFor="search-author" className="field-label">
-              Author
-            </label>
-            <select id="search-author" name="author" defaultValue={data.query.author ?? ""} className="field-input">
-              <option value="">Anyone</option>
-              {data.authors.map((a) => (
-                <option key={a.id} value={a.id}>
-                  {a.name}
-                </option>
-              ))}
-            </select>
-          </div>
+          <SelectField name="project" label="Project" anyLabel="Any" defaultValue={data.query.project} options={data.projects.map((p) => ({ value: p.id, label: p.label }))} />
+          <SelectField name="calculator" label="Calculator" anyLabel="Any" defaultValue={data.query.calculator} options={data.calculators.map((c) => ({ value: c.id, label: c.title }))} />
+          <SelectField name="author" label="Author" anyLabel="Anyone" defaultValue={data.query.author} options={data.authors.map((a) => ({ value: a.id, label: a.name }))} />
           <div>
             <label htmlFor="search-from" className="field-label">
               Changed since

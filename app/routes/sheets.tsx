@@ -2,6 +2,7 @@ import { Form, Link, useLoaderData, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/sheets";
 import { EmptyState, PageHeader } from "~/components/empty-state";
+import { SelectField } from "~/components/form-fields";
 import { StatusBadge, statusLabel } from "~/components/status-badge";
 import { calculators } from "~/lib/calc/registry";
 import { requireMember } from "~/.server/access";
@@ -82,59 +83,10 @@ export default function Sheets() {
       </PageHeader>
 
       <Form method="get" className="panel mb-4 grid gap-3 p-4 sm:grid-cols-2 lg:grid-cols-[repeat(4,1fr)_auto]" aria-label="Filter sheets">
-        <div>
-          <label className="field-label" htmlFor="f-status">
-            State
-          </label>
-          <select id="f-status" name="status" defaultValue={data.query.status ?? ""} className="field-input">
-            <option value="">Any</option>
-            {SHEET_STATUS_OPTIONS.map((s) => (
-              <option key={s} value={s}>
-                {statusLabel(s)}
-              </option>
-            ))}
-          </select>
-        </div>
-        <div>
-          <label className="field-label" htmlFor="f-project">
-            Project
-          </label>
-          <select id="f-project" name="project" defaultValue={data.query.project ?? ""} className="field-input">
-            <option value="">Any</option>
-            <option value="library">Team library (no project)</option>
-            {data.projects.map((p) => (
-              <option key={p.id} value={p.id}>
-                {p.label}
-              </option>
-            ))}
-          </select>
-        </div>
-        <div>
-          <label className="field-label" htmlFor="f-calculator">
-            Uses calculator
-          </label>
-          <select id="f-calculator" name="calculator" defaultValue={data.query.calculator ?? ""} className="field-input">
-            <option value="">Any</option>
-            {data.calculators.map((c) => (
-              <option key={c.id} value={c.id}>
-                {c.title}
-              </option>
-            ))}
-          </select>
-        </div>
-        <div>
-          <label className="field-label" htmlFor="f-author">
-            Author
-          </label>
-          <select id="f-author" name="author" defaultValue={data.query.author ?? ""} className="field-input">
-            <option value="">Anyone</option>
-            {data.authors.map((a) => (
-              <option key={a.id} value={a.id}>
-                {a.name}
-              </option>
-            ))}
-          </select>
-        </div>
+        <SelectField name="status" label="State" anyLabel="Any" defaultValue={data.query.status} options={SHEET_STATUS_OPTIONS.map((v) => ({ value: v, label: statusLabel(v) }))} />
+        <SelectField name="project" label="Project" anyLabel="Any" defaultValue={data.query.project} options={[{ value: "library", label: "Team library (no project)" }, ...data.projects.map((p) => ({ value: p.id, label: p.label }))]} />
+        <SelectField name="calculator" label="Uses calculator" anyLabel="Any" defaultValue={data.query.calculator} options={data.calculators.map((c) => ({ value: c.id, label: c.title }))} />
+        <SelectField name="author" label="Author" anyLabel="Anyone" defaultValue={data.query.author} options={data.authors.map((a) => ({ value: a.id, label: a.name }))} />
         <input type="hidden" name="sort" value={data.query.sort} />
         <input type="hidden" name="dir" value={data.query.dir} />
         <div className="flex items-end gap-2">
