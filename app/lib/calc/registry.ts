@@ -13,7 +13,7 @@ import { calculator as sixStep } from "./calculators/six-step";
 import { calculator as spwm } from "./calculators/spwm";
 import { calculator as steppedWave } from "./calculators/stepped-wave";
 import { calculator as switchStress } from "./calculators/switch-stress";
-import type { Calculator, FormulaSpec, InputSpec, OutputSpec } from "./types";
+import type { Calculator } from "./types";
 import { ENGINE_VERSION } from "./version";
 
 /** Every calculator, in catalogue order: waveforms, then the stages they feed, then checks. */
@@ -41,18 +41,7 @@ export function calculatorIds(): string[] {
 }
 
 /** A calculator as plain data, for the catalogue page and the API. */
-export interface CatalogueEntry {
-  id: string;
-  title: string;
-  summary: string;
-  description: string;
-  inputs: InputSpec[];
-  outputs: OutputSpec[];
-  formulas: FormulaSpec[];
-  conventions: string[];
-  sources: string[];
-  cautions: string[];
-}
+export type CatalogueEntry = Omit<Calculator, "compute">;
 
 /** The whole catalogue as JSON-serialisable data (no functions). */
 export function catalogue(): { engineVersion: string; calculators: CatalogueEntry[] } {

@@ -16,7 +16,7 @@
 import { scalar } from "../format";
 import { fieldError } from "../errors";
 import type { Calculator, QuantityInputSpec } from "../types";
-import { LETHAL_VOLTAGE_CAUTION, readQuantity } from "./waveform-inputs";
+import { dcLinkVoltageInput, LETHAL_VOLTAGE_CAUTION, outputFrequencyInput, readQuantity } from "./shared-inputs";
 
 const pInput: QuantityInputSpec = {
   key: "p",
@@ -30,30 +30,9 @@ const pInput: QuantityInputSpec = {
   max: 1e9,
 };
 
-const vdcInput: QuantityInputSpec = {
-  key: "vdc",
-  label: "DC-link voltage",
-  description: "Mean DC-link voltage.",
-  kind: "quantity",
-  dimension: "voltage",
-  displayUnit: "V",
-  min: 0,
-  minExclusive: true,
-  max: 1e6,
-};
+const vdcInput = dcLinkVoltageInput(undefined, "Mean DC-link voltage.");
 
-const fInput: QuantityInputSpec = {
-  key: "f",
-  label: "Output frequency",
-  description: "Inverter output frequency; the link ripple is at twice this.",
-  kind: "quantity",
-  dimension: "frequency",
-  displayUnit: "Hz",
-  min: 0,
-  minExclusive: true,
-  max: 1e6,
-  default: "50 Hz",
-};
+const fInput = outputFrequencyInput("Output frequency", "Inverter output frequency; the link ripple is at twice this.");
 
 const rippleInput: QuantityInputSpec = {
   key: "rippleVpp",

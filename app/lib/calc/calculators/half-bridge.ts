@@ -20,20 +20,9 @@
  */
 import { scalar } from "../format";
 import type { Calculator, ChoiceInputSpec, QuantityInputSpec } from "../types";
-import { LETHAL_VOLTAGE_CAUTION, readChoice, readQuantity } from "./waveform-inputs";
+import { dcLinkVoltageInput, LETHAL_VOLTAGE_CAUTION, readChoice, readQuantity } from "./shared-inputs";
 
-const vdcInput: QuantityInputSpec = {
-  key: "vdc",
-  label: "DC-link voltage",
-  description: "Total DC supply voltage across the bridge (both capacitors, or the supply feeding the centre tap).",
-  kind: "quantity",
-  dimension: "voltage",
-  displayUnit: "V",
-  min: 0,
-  minExclusive: true,
-  max: 1e6,
-  default: "48 V",
-};
+const vdcInput = dcLinkVoltageInput("48 V", "Total DC supply voltage across the bridge (both capacitors, or the supply feeding the centre tap).");
 
 const modeInput: ChoiceInputSpec = {
   key: "mode",

@@ -33,7 +33,7 @@ import {
 import { IEEE1547_HIGHEST_ORDER, IEEE1547_ODD_LIMITS, IEEE1547_ORIGIN, IEEE1547_TRD } from "../../standards/ieee1547";
 import { tableLimitAt, type TableOrigin } from "../../standards/types";
 import type { Calculator, ChoiceInputSpec, LimitRow, QuantityInputSpec, Results, SpectrumInputSpec, SpectrumLine, StandardSource } from "../types";
-import { readChoice, readQuantity } from "./waveform-inputs";
+import { readChoice, readQuantity } from "./shared-inputs";
 
 export const VERDICT_NOTE = "Engineering estimate — compliance is established by accredited testing and the utility's interconnection rules.";
 

@@ -15,7 +15,7 @@
  */
 import { scalar } from "../format";
 import type { BodePoint, Calculator, QuantityInputSpec, Results } from "../types";
-import { LETHAL_VOLTAGE_CAUTION, readQuantity } from "./waveform-inputs";
+import { LETHAL_VOLTAGE_CAUTION, outputFrequencyInput, readQuantity } from "./shared-inputs";
 
 const lInput: QuantityInputSpec = {
   key: "l",
@@ -66,18 +66,7 @@ const fswInput: QuantityInputSpec = {
   max: 1e9,
 };
 
-const fInput: QuantityInputSpec = {
-  key: "f",
-  label: "Fundamental frequency",
-  description: "Output frequency the filter must pass.",
-  kind: "quantity",
-  dimension: "frequency",
-  displayUnit: "Hz",
-  min: 0,
-  minExclusive: true,
-  max: 1e6,
-  default: "50 Hz",
-};
+const fInput = outputFrequencyInput("Fundamental frequency", "Output frequency the filter must pass.");
 
 const voutInput: QuantityInputSpec = {
   key: "vout",

@@ -35,7 +35,7 @@ import {
   fundamentalFrequencyInput,
   highestOrderInput,
   readQuantity,
-} from "./waveform-inputs";
+} from "./shared-inputs";
 
 const vdcInput = dcLinkVoltageInput("48 V", "Full-bridge DC-link voltage; the output swings between +Vdc, 0 and −Vdc.");
 

@@ -33,7 +33,7 @@ import {
   fundamentalFrequencyInput,
   highestOrderInput,
   readQuantity,
-} from "./waveform-inputs";
+} from "./shared-inputs";
 
 const vdcInput = dcLinkVoltageInput("600 V", "DC-link voltage across the three-phase bridge.");
 const hmaxInput = highestOrderInput("49");

@@ -72,7 +72,7 @@ import {
   highestOrderInput,
   readChoice,
   readQuantity,
-} from "./waveform-inputs";
+} from "./shared-inputs";
 
 export type PwmScheme = "bipolar" | "unipolar";
 

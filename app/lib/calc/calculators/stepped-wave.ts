@@ -37,7 +37,7 @@ import {
   highestOrderInput,
   readQuantity,
   readQuantityList,
-} from "./waveform-inputs";
+} from "./shared-inputs";
 
 const vdcInput = dcLinkVoltageInput("48 V", "Voltage of one step (one cell or one level); the peak output is (number of angles) × Vdc.");
 

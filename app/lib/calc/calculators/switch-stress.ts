@@ -30,7 +30,7 @@
 import { CalculationError } from "../errors";
 import { scalar } from "../format";
 import type { Calculator, ChoiceInputSpec, FieldError, QuantityInputSpec, Results } from "../types";
-import { LETHAL_VOLTAGE_CAUTION, readChoice, readQuantity } from "./waveform-inputs";
+import { dcLinkVoltageInput, LETHAL_VOLTAGE_CAUTION, readChoice, readQuantity } from "./shared-inputs";
 
 const quantity = (spec: Omit<QuantityInputSpec, "kind">): QuantityInputSpec => ({ kind: "quantity", ...spec });
 
@@ -59,7 +59,7 @@ const deviceInput: ChoiceInputSpec = {
   default: "mosfet",
 };
 
-const vdcInput = quantity({ key: "vdc", label: "DC-link voltage", description: "DC-link voltage across each leg.", dimension: "voltage", displayUnit: "V", min: 0, minExclusive: true, max: 1e6 });
+const vdcInput = dcLinkVoltageInput(undefined, "DC-link voltage across each leg.");
 const pInput = quantity({ key: "p", label: "Output power", description: "Total real output power of the inverter.", dimension: "power", displayUnit: "W", min: 0, minExclusive: true, max: 1e9 });
 const pfInput = quantity({ key: "pf", label: "Power factor", description: "Load displacement power factor, 0 to 1.", dimension: "dimensionless", displayUnit: "", min: 0, minExclusive: true, max: 1, default: "1" });
 const voutInput = quantity({

@@ -1,6 +1,7 @@
 /**
- * Inputs and cautions shared by the waveform calculators (quasi-square,
- * stepped-wave, six-step, spwm), and the defensive read of parsed inputs.
+ * Inputs and cautions shared by the calculators (DC-link voltage, output
+ * frequency, harmonic order, the lethal-voltage caution), and the defensive
+ * read of parsed inputs.
  *
  * `inputs.ts` validates typed text against each InputSpec before `compute`
  * runs; these readers check the same spec again so a direct call with a bad
@@ -9,7 +10,8 @@
 import { fieldError } from "../errors";
 import type { ChoiceInputSpec, ParsedInputs, QuantityInputSpec, QuantityListInputSpec } from "../types";
 
-export const dcLinkVoltageInput = (defaultText: string, description: string): QuantityInputSpec => ({
+/** The DC-link voltage input `vdc` every inverter calculator takes; without a default text the engineer must type it. */
+export const dcLinkVoltageInput = (defaultText: string | undefined, description: string): QuantityInputSpec => ({
   key: "vdc",
   label: "DC-link voltage",
   description,
@@ -19,13 +21,14 @@ export const dcLinkVoltageInput = (defaultText: string, description: string): Qu
   min: 0,
   minExclusive: true,
   max: 1e6,
-  default: defaultText,
+  ...(defaultText === undefined ? {} : { default: defaultText }),
 });
 
-export const fundamentalFrequencyInput: QuantityInputSpec = {
+/** The output (fundamental) frequency input `f`, 50 Hz by default; label and description say what it sets. */
+export const outputFrequencyInput = (label: string, description: string): QuantityInputSpec => ({
   key: "f",
-  label: "Fundamental frequency",
-  description: "Output frequency; sets the frequency shown beside each harmonic order (n × f).",
+  label,
+  description,
   kind: "quantity",
   dimension: "frequency",
   displayUnit: "Hz",
@@ -33,7 +36,12 @@ export const fundamentalFrequencyInput: QuantityInputSpec = {
   minExclusive: true,
   max: 1e6,
   default: "50 Hz",
-};
+});
+
+export const fundamentalFrequencyInput = outputFrequencyInput(
+  "Fundamental frequency",
+  "Output frequency; sets the frequency shown beside each harmonic order (n × f).",
+);
 
 export const highestOrderInput = (defaultText: string): QuantityInputSpec => ({
   key: "hmax",
