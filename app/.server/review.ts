@@ -43,6 +43,19 @@ async function notify(tx: Tx, to: { userId: string; email: string }, teamId: str
   await enqueueMail({ to: to.email, subject, text: `${message}\n\nOpen it here:\n${new URL(link, config().APP_URL).toString()}\n` }, tx);
 }
 
+/** Tells a revision's author what happened to it, in the app and by e-mail. */
+async function notifyAuthor(
+  tx: Tx,
+  revision: { authorId: string | null; label: string },
+  sheet: { teamId: string; number: number },
+  kind: string,
+  subject: string,
+  message: string,
+) {
+  const author = await userById(tx, revision.authorId);
+  if (author) await notify(tx, { userId: author.id, email: author.email }, sheet.teamId, kind, subject, message, sheetLink(sheet.number, revision.label));
+}
+
 async function userById(tx: Tx, id: string | null) {
   if (!id) return undefined;
   const [row] = await tx.select({ id: user.id, name: user.name, email: user.email }).from(user).where(eq(user.id, id));
@@ -230,18 +243,8 @@ export async function returnRevision(me: Member, revisionId: string) {
     const request = await openRequest(tx, revision.id);
     if (request) await tx.update(checkRequest).set({ outcome: "returned", closedAt: new Date() }).where(eq(checkRequest.id, request.id));
     await recordAudit({ teamId: sheet.teamId, actorId: me.user.id, action: "revision.returned", subjectType: "sheet", subjectId: sheet.id, detail: { label: revision.label } }, tx);
-    const author = await userById(tx, revision.authorId);
-    if (author) {
-      await notify(
-        tx,
-        { userId: author.id, email: author.email },
-        sheet.teamId,
-        "returned",
-        `Returned with comments: ${sheetNumberLabel(sheet.number)} rev ${revision.label}`,
-        `${me.user.name} returned ${sheetNumberLabel(sheet.number)} revision ${revision.label}, “${sheet.title}”, with ${comments} comment${comments === 1 ? "" : "s"}.`,
-        sheetLink(sheet.number, revision.label),
-      );
-    }
+    await notifyAuthor(tx, revision, sheet, "returned", `Returned with comments: ${sheetNumberLabel(sheet.number)} rev ${revision.label}`,
+      `${me.user.name} returned ${sheetNumberLabel(sheet.number)} revision ${revision.label}, “${sheet.title}”, with ${comments} comment${comments === 1 ? "" : "s"}.`);
   });
 }
 
@@ -266,18 +269,8 @@ export async function stampRevision(me: Member, revisionId: string) {
     const request = await openRequest(tx, revision.id);
     if (request) await tx.update(checkRequest).set({ outcome: "verified", closedAt: new Date() }).where(eq(checkRequest.id, request.id));
     await recordAudit({ teamId: sheet.teamId, actorId: me.user.id, action: "revision.verified", subjectType: "sheet", subjectId: sheet.id, detail: { label: revision.label, contentHash: revision.contentHash } }, tx);
-    const author = await userById(tx, revision.authorId);
-    if (author) {
-      await notify(
-        tx,
-        { userId: author.id, email: author.email },
-        sheet.teamId,
-        "verified",
-        `Verified: ${sheetNumberLabel(sheet.number)} rev ${revision.label}`,
-        `${me.user.name} verified ${sheetNumberLabel(sheet.number)} revision ${revision.label}, “${sheet.title}”.`,
-        sheetLink(sheet.number, revision.label),
-      );
-    }
+    await notifyAuthor(tx, revision, sheet, "verified", `Verified: ${sheetNumberLabel(sheet.number)} rev ${revision.label}`,
+      `${me.user.name} verified ${sheetNumberLabel(sheet.number)} revision ${revision.label}, “${sheet.title}”.`);
   });
 }
 

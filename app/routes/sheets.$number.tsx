@@ -4,7 +4,7 @@ import { z } from "zod";
 import type { Route } from "./+types/sheets.$number";
 import { HardwareCaution } from "~/components/caution";
 import { EmptyState } from "~/components/empty-state";
-import { FormError, Notice } from "~/components/form-fields";
+import { FormError, Notice, SelectField } from "~/components/form-fields";
 import { PrintButton, PrintTitleStrip } from "~/components/print-button";
 import { ReviewPanel } from "~/components/review-panel";
 import { SheetView } from "~/components/sheet-view";
@@ -309,19 +309,12 @@ export default function SheetPage() {
       {revision && canWrite ? (
         <Form method="post" className="panel flex flex-col gap-3 p-4 sm:flex-row sm:items-end print:hidden">
           <input type="hidden" name="intent" value="reuse" />
-          <div className="flex-1">
-            <label htmlFor="reuse-project" className="field-label">
-              Reuse revision {revision.label} in project
-            </label>
-            <select id="reuse-project" name="projectId" className="field-input">
-              <option value="">Team library (no project)</option>
-              {projects.map((p) => (
-                <option key={p.id} value={p.id}>
-                  {p.label}
-                </option>
-              ))}
-            </select>
-          </div>
+          <SelectField
+            className="flex-1"
+            name="projectId"
+            label={`Reuse revision ${revision.label} in project`}
+            options={[{ value: "", label: "Team library (no project)" }, ...projects.map((p) => ({ value: p.id, label: p.label }))]}
+          />
           <button type="submit" className="btn btn-quiet">
             Reuse as a new sheet
           </button>

@@ -1,47 +1,21 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { SMTPServer } from "smtp-server";
-import { simpleParser } from "mailparser";
 import { isNull, sql } from "drizzle-orm";
-import net from "node:net";
+import { privateSmtp } from "../support/smtp";
 
 // This file's server modules send to a private SMTP port we open and close at will.
-const port = await new Promise<number>((resolve) => {
-  const probe = net.createServer().listen(0, "127.0.0.1", () => {
-    const { port } = probe.address() as net.AddressInfo;
-    probe.close(() => resolve(port));
-  });
-});
-process.env.SMTP_URL = `smtp://127.0.0.1:${port}`;
+const smtp = await privateSmtp();
+process.env.SMTP_URL = smtp.url;
 
 const { db } = await import("../../app/.server/db/client");
 const { outbox } = await import("../../app/.server/db/schema");
 const { drainOutbox, enqueueMail, retryDelayMs } = await import("../../app/.server/mail/outbox");
 
-const received: { to: string; subject: string }[] = [];
-let server: SMTPServer | undefined;
-
-function startSmtp(): Promise<void> {
-  server = new SMTPServer({
-    authOptional: true,
-    disabledCommands: ["STARTTLS"],
-    logger: false,
-    onData(stream, session, callback) {
-      simpleParser(stream).then((mail) => {
-        received.push({ to: session.envelope.rcptTo[0]!.address, subject: mail.subject ?? "" });
-        callback();
-      }, callback);
-    },
-  });
-  return new Promise((resolve) => server!.listen(port, "127.0.0.1", () => resolve()));
-}
-function stopSmtp(): Promise<void> {
-  return new Promise((resolve) => (server ? server.close(() => resolve()) : resolve()));
-}
+const received = smtp.received;
 
 beforeAll(async () => {
   await db().delete(outbox);
 });
-afterAll(stopSmtp);
+afterAll(() => smtp.stop());
 
 describe("mail outbox", () => {
   it("keeps mail through an SMTP outage and delivers it once the server is back", async () => {
@@ -54,7 +28,7 @@ describe("mail outbox", () => {
     expect(row!.lastError).toBeTruthy();
     expect(row!.nextAttemptAt.getTime()).toBeGreaterThan(Date.now());
 
-    await startSmtp();
+    await smtp.start();
     // Not due yet: the backoff holds it.
     expect(await drainOutbox()).toEqual({ sent: 0, failed: 0 });
     await db().update(outbox).set({ nextAttemptAt: sql`now()` });

@@ -1,16 +1,9 @@
-import net from "node:net";
-import { simpleParser } from "mailparser";
-import { SMTPServer } from "smtp-server";
 import { afterAll, describe, expect, it } from "vitest";
+import { privateSmtp } from "../support/smtp";
 
 // This file's server modules send to a private SMTP port that starts closed: the mail server is down.
-const port = await new Promise<number>((resolve) => {
-  const probe = net.createServer().listen(0, "127.0.0.1", () => {
-    const { port } = probe.address() as net.AddressInfo;
-    probe.close(() => resolve(port));
-  });
-});
-process.env.SMTP_URL = `smtp://127.0.0.1:${port}`;
+const smtp = await privateSmtp();
+process.env.SMTP_URL = smtp.url;
 
 const { db } = await import("../../app/.server/db/client");
 const { member, organization, outbox, sheetRevision } = await import("../../app/.server/db/schema");
@@ -21,9 +14,8 @@ const { drainOutbox } = await import("../../app/.server/mail/outbox");
 const { eq, isNull } = await import("drizzle-orm");
 type Member = import("../../app/.server/access").Member;
 
-const received: { to: string; subject: string }[] = [];
-let server: SMTPServer | undefined;
-afterAll(() => new Promise<void>((resolve) => (server ? server.close(() => resolve()) : resolve())));
+const received = smtp.received;
+afterAll(() => smtp.stop());
 
 async function person(email: string, name: string) {
   const created = await auth().api.signUpEmail({ body: { email, password: "long-enough-password", name } });
@@ -58,18 +50,7 @@ describe("check mail during a mail-server outage", () => {
     const pending = await db().select().from(outbox).where(isNull(outbox.sentAt));
     expect(pending.map((p) => (p.payload as { subject: string }).subject)).toEqual(expect.arrayContaining([expect.stringMatching(/^Check requested/), expect.stringMatching(/^Verified: CS-0001 rev A/)]));
 
-    server = new SMTPServer({
-      authOptional: true,
-      disabledCommands: ["STARTTLS"],
-      logger: false,
-      onData(stream, session, callback) {
-        simpleParser(stream).then((mail) => {
-          received.push({ to: session.envelope.rcptTo[0]!.address, subject: mail.subject ?? "" });
-          callback();
-        }, callback);
-      },
-    });
-    await new Promise<void>((resolve) => server!.listen(port, "127.0.0.1", () => resolve()));
+    await smtp.start();
     await db().update(outbox).set({ nextAttemptAt: new Date() });
     await drainOutbox();
     expect(received).toEqual(expect.arrayContaining([{ to: author.email, subject: "Verified: CS-0001 rev A" }]));

@@ -132,16 +132,21 @@ export const sheetRevision = pgTable(
   (t) => [uniqueIndex("sheet_revision_sheet_sequence_idx").on(t.sheetId, t.sequence), index("sheet_revision_team_idx").on(t.teamId)],
 );
 
+/** Rows that belong to one revision of one sheet of one team (blocks, checks, comments, stamps). */
+const revisionScope = () => ({
+  revisionId: text("revision_id")
+    .notNull()
+    .references(() => sheetRevision.id, { onDelete: "restrict" }),
+  sheetId: text("sheet_id").notNull(),
+  teamId: text("team_id").notNull(),
+});
+
 /** Each block of each revision as a row, so SQL can ask e.g. for every lc-filter with f0 between 1 and 3 kHz. */
 export const revisionBlock = pgTable(
   "revision_block",
   {
     id: id(),
-    revisionId: text("revision_id")
-      .notNull()
-      .references(() => sheetRevision.id, { onDelete: "restrict" }),
-    sheetId: text("sheet_id").notNull(),
-    teamId: text("team_id").notNull(),
+    ...revisionScope(),
     blockId: text("block_id").notNull(),
     calculator: text("calculator").notNull(),
     position: integer("position").notNull(),
@@ -184,11 +189,7 @@ export const checkRequest = pgTable(
   "check_request",
   {
     id: id(),
-    revisionId: text("revision_id")
-      .notNull()
-      .references(() => sheetRevision.id, { onDelete: "restrict" }),
-    sheetId: text("sheet_id").notNull(),
-    teamId: text("team_id").notNull(),
+    ...revisionScope(),
     requestedBy: text("requested_by").references(() => user.id, { onDelete: "set null" }),
     checkerId: text("checker_id").references(() => user.id, { onDelete: "set null" }),
     createdAt: createdAt(),
@@ -204,11 +205,7 @@ export const reviewComment = pgTable(
   "review_comment",
   {
     id: id(),
-    revisionId: text("revision_id")
-      .notNull()
-      .references(() => sheetRevision.id, { onDelete: "restrict" }),
-    sheetId: text("sheet_id").notNull(),
-    teamId: text("team_id").notNull(),
+    ...revisionScope(),
     /** "block:qs1", "paragraph:3" or "sheet". */
     anchor: text("anchor").notNull(),
     parentId: text("parent_id"),
@@ -249,11 +246,7 @@ export const stamp = pgTable(
   "stamp",
   {
     id: id(),
-    revisionId: text("revision_id")
-      .notNull()
-      .references(() => sheetRevision.id, { onDelete: "restrict" }),
-    sheetId: text("sheet_id").notNull(),
-    teamId: text("team_id").notNull(),
+    ...revisionScope(),
     checkerId: text("checker_id").references(() => user.id, { onDelete: "set null" }),
     contentHash: text("content_hash").notNull(),
     engineVersion: text("engine_version").notNull(),
