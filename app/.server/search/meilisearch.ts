@@ -4,7 +4,7 @@
  * another team are dropped again here in case a filter were ever wrong.
  */
 import { Meilisearch, type Index, type Task } from "meilisearch";
-import { HIT_START, HIT_STOP, markedToSegments, type SnippetSegment } from "~/lib/search/document-text";
+import { HIT_START, HIT_STOP, markedToSegments, shownBlockValues, type SnippetSegment } from "~/lib/search/document-text";
 import { pageOf, TOTAL_CAP, type SearchDocument, type SearchEngine, type SearchFilters, type SearchResult } from "./types";
 
 /** A search document as Meilisearch stores it: dates as epoch seconds so they can be filtered. */
@@ -73,7 +73,8 @@ export class MeilisearchEngine implements SearchEngine {
       matchingStrategy: "all",
       attributesToRetrieve: ["id", "kind", "teamId", "number", "title", "projectCode", "state", "revisionLabel"],
       attributesToHighlight: ["body", "blockValues"],
-      attributesToCrop: ["body", "blockValues"],
+      // Block values are never cropped: the hit's line is cut to its shown half below.
+      attributesToCrop: ["body"],
       cropLength: 24,
       highlightPreTag: HIT_START,
       highlightPostTag: HIT_STOP,
@@ -84,7 +85,8 @@ export class MeilisearchEngine implements SearchEngine {
       .filter((hit) => hit.teamId === teamId)
       .map((hit) => {
         const formatted = (hit._formatted ?? {}) as Partial<Record<"body" | "blockValues", string>>;
-        const marked = [formatted.body, formatted.blockValues].find((text) => text?.includes(HIT_START)) ?? formatted.body ?? "";
+        const values = formatted.blockValues?.includes(HIT_START) ? shownBlockValues(formatted.blockValues, HIT_START) : undefined;
+        const marked = formatted.body?.includes(HIT_START) ? formatted.body : (values ?? formatted.body ?? "");
         const snippet: SnippetSegment[] = markedToSegments(marked, HIT_START, HIT_STOP);
         return {
           id: hit.id,

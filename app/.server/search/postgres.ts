@@ -102,7 +102,7 @@ export class PostgresSearchEngine implements SearchEngine {
         : sql`select d.* from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
       // Snippets only for the page: ts_headline re-parses the text, so it runs on the few rows shown.
       page = sql`
-        select p.*, ts_headline('sinewright', p.body || E'\n' || p.block_values, ${ranking}, ${HEADLINE_OPTIONS}) as headline
+        select p.*, ts_headline('sinewright', p.body || E'\n' || regexp_replace(p.block_values, E'\\x1f[^\\n]*', '', 'g'), ${ranking}, ${HEADLINE_OPTIONS}) as headline
         from (
           select c.id, c.kind, c.number, c.title, c.project_code, c.state, c.revision_label, c.body, c.block_values,
             ts_rank(c.search, ${ranking})::float8 as score, count(*) over ()::int as candidates

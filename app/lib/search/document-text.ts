@@ -84,29 +84,52 @@ function isScalar(value: unknown): value is { value: number; unit: string; displ
 }
 
 /**
- * One line per block: calculator id and title, block id, then each input and scalar
- * result as "name value spellings…". Inputs referencing another block (`=qs1.v1Rms`)
- * contribute their computed value.
+ * Separates, on each block line, what a reader is shown (block, calculator, values as
+ * typed) from the extra spellings that are only there to be found. A control
+ * character no sheet contains; text search treats it as a blank.
+ */
+export const SPELLINGS_MARK = "\u001f";
+
+/**
+ * One line per block: "qs1 · Quasi-square (quasi-square): vdc 48 V, alpha 23 deg →
+ * thd 29.01 %", then SPELLINGS_MARK and each value in the spellings people type.
+ * Inputs referencing another block (`=qs1.v1Rms`) contribute their computed value.
  */
 export function blockValuesText(blocks: IndexedBlock[], calculatorById: (id: string) => Calculator | undefined): string {
   return blocks
     .map((block) => {
       const calculator = calculatorById(block.calculator);
-      const parts: string[] = [block.calculator, calculator?.title ?? "", block.blockId];
+      const shown: string[] = [];
+      const spellings: string[] = [];
       for (const [name, typed] of Object.entries(block.inputs)) {
-        parts.push(name);
-        if (typeof typed === "string" && !typed.startsWith("=")) parts.push(typed);
         const spec = calculator?.inputs.find((i) => i.key === name);
         const parsed = block.parsedInputs?.[name];
-        if (spec?.kind === "quantity" && typeof parsed === "number") parts.push(...quantitySpellings(parsed, SI_UNIT[spec.dimension]));
+        const computed = spec?.kind === "quantity" && typeof parsed === "number" ? quantitySpellings(parsed, SI_UNIT[spec.dimension]) : [];
+        if (typeof typed === "string" && !typed.startsWith("=")) shown.push(`${name} ${typed}`);
+        else if (spec?.kind === "quantity" && typeof parsed === "number") shown.push(`${name} ${formatQuantity(parsed, SI_UNIT[spec.dimension])}`);
+        spellings.push(...computed);
       }
+      const results: string[] = [];
       for (const [name, result] of Object.entries(block.results ?? {})) {
         if (!isScalar(result)) continue;
-        parts.push(name, result.display, ...quantitySpellings(result.value, result.unit));
+        results.push(`${name} ${result.display}`);
+        spellings.push(...quantitySpellings(result.value, result.unit));
       }
-      return parts.filter(Boolean).join(" ");
+      const head = `${block.blockId} · ${calculator?.title ?? block.calculator} (${block.calculator}): ${shown.join(", ")}${results.length ? ` → ${results.join(", ")}` : ""}`;
+      return `${head}${SPELLINGS_MARK}${spellings.join(" ")}`;
     })
     .join("\n");
+}
+
+/**
+ * The part of marked block-value text a reader should see: the shown half of the first
+ * line holding a match (the match highlighted when it fell there), never the spellings.
+ */
+export function shownBlockValues(marked: string, start: string): string {
+  const lines = marked.split("\n");
+  const line = lines.find((l) => l.includes(start)) ?? lines[0] ?? "";
+  const cut = line.indexOf(SPELLINGS_MARK);
+  return cut === -1 ? line : line.slice(0, cut);
 }
 
 /** A piece of a snippet: plain text, and whether it is a match to highlight. */

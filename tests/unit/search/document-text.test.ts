@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { getCalculator } from "~/lib/calc/registry";
 import { prepareSheet } from "~/lib/sheets/pipeline";
-import { blockValuesText, HIT_START, HIT_STOP, markedToSegments, proseText, quantitySpellings } from "~/lib/search/document-text";
+import { blockValuesText, HIT_START, HIT_STOP, markedToSegments, proseText, quantitySpellings, shownBlockValues, SPELLINGS_MARK } from "~/lib/search/document-text";
 
 describe("quantity spellings", () => {
   it("spells 20 kHz the ways engineers type it", () => {
@@ -38,14 +38,20 @@ describe("search text of a sheet", () => {
       return { blockId: b.id, calculator: b.calculator, inputs: b.inputs, parsedInputs: outcome?.ok ? outcome.inputs : null, results: outcome?.ok ? outcome.results : null };
     });
     const [quasiSquare, lcFilter] = blockValuesText(blocks, getCalculator).split("\n");
-    expect(quasiSquare).toMatch(/^quasi-square .* vdc 48 V .*48 v/);
-    expect(lcFilter).toContain("lc-filter");
+    expect(quasiSquare).toMatch(/^qs1 · .* \(quasi-square\): vdc 48 V, alpha 23 deg → .*\u001f.*48 v/);
+    expect(lcFilter).toContain("(lc-filter)");
     expect(lcFilter).toContain("fsw 20kHz");
     expect(lcFilter).toContain("20 khz");
     expect(lcFilter).toContain("f0 1.59 kHz");
     // A referenced input contributes its computed value, not the reference.
     expect(lcFilter).not.toContain("=qs1");
-    expect(lcFilter).toMatch(/vout .*39\.8 v/);
+    expect(lcFilter).toMatch(/vout 39\.8\d* V/);
+  });
+
+  it("shows a reader the block and its values as typed, never the extra spellings", () => {
+    const line = `lc1 · LC output filter (lc-filter): fsw 20kHz${SPELLINGS_MARK}20 khz ${HIT_START}20khz${HIT_STOP} 20000 hz`;
+    expect(shownBlockValues(`qs1 · x: vdc 48 V${SPELLINGS_MARK}48 v\n${line}`, HIT_START)).toBe("lc1 · LC output filter (lc-filter): fsw 20kHz");
+    expect(shownBlockValues(`lc1 · x: fsw ${HIT_START}20kHz${HIT_STOP}${SPELLINGS_MARK}20 khz`, HIT_START)).toBe(`lc1 · x: fsw ${HIT_START}20kHz${HIT_STOP}`);
   });
 });
 
