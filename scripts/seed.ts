@@ -11,7 +11,7 @@ try {
   console.log("         (demo-only accounts: change or remove them before real use)");
   if (content) {
     const seconds = ((performance.now() - started) / 1000).toFixed(1);
-    console.log(`[seed] ${content.projects} projects, ${content.sheets} calc sheets, ${content.revisions} revisions (${seconds} s)`);
+    console.log(`[seed] ${content.projects} projects, ${content.sheets} calc sheets, ${content.revisions} revisions, ${content.documents} project documents (${seconds} s)`);
   }
 } catch (error) {
   console.error(error instanceof Error ? error.message : error);

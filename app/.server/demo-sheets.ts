@@ -8,7 +8,8 @@
 import { readFile } from "node:fs/promises";
 import path from "node:path";
 import { z } from "zod";
-import { projectForm, sheetDetailsForm } from "~/lib/forms/sheets";
+import { documentDetailsForm, projectForm, sheetDetailsForm } from "~/lib/forms/sheets";
+import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
 import type { DemoTeam } from "./seed";
 
@@ -36,11 +37,22 @@ const sheetEntry = z.object({
   revisions: z.array(revisionEntry).min(1),
 });
 
+const documentEntry = z.object({
+  title: documentDetailsForm.shape.title,
+  project: z.string(),
+  author: z.email(),
+  /** Relative to content/, e.g. "documents/pump-design-report.mdx". */
+  file: z.string().regex(/^documents\/[a-z0-9][a-z0-9-]*\.mdx$/, "a file under documents/, e.g. documents/pump-design-report.mdx"),
+  note: z.string().trim().min(1).max(500),
+});
+
 export const demoSheetsManifest = z
   .object({
     projects: z.array(projectForm),
     /** In numbering order: the first becomes CS-0001. */
     sheets: z.array(sheetEntry),
+    /** Project documents, seeded after every sheet (PD-0001 …), citing the sheets by number. */
+    documents: z.array(documentEntry).default([]),
   })
   .superRefine((manifest, ctx) => {
     const codes = new Set<string>();
@@ -51,6 +63,11 @@ export const demoSheetsManifest = z
     manifest.sheets.forEach((s, i) => {
       if (s.project !== null && !codes.has(s.project.toUpperCase())) {
         ctx.addIssue({ code: "custom", path: ["sheets", i, "project"], message: `"${s.title}" names project ${s.project}, which is not in projects` });
+      }
+    });
+    manifest.documents.forEach((d, i) => {
+      if (!codes.has(d.project.toUpperCase())) {
+        ctx.addIssue({ code: "custom", path: ["documents", i, "project"], message: `"${d.title}" names project ${d.project}, which is not in projects` });
       }
     });
   });
@@ -72,9 +89,19 @@ export interface DemoSheet {
   revisions: DemoRevision[];
 }
 
+export interface DemoDocument {
+  title: string;
+  projectCode: string;
+  author: string;
+  file: string;
+  note: string;
+  source: string;
+}
+
 export interface DemoContent {
   projects: DemoSheetsManifest["projects"];
   sheets: DemoSheet[];
+  documents: DemoDocument[];
 }
 
 /** Raised when the demo content would not seed cleanly; the message lists every problem with its file. */
@@ -142,6 +169,29 @@ export async function loadDemoSheets(demo: DemoTeam, contentDir = path.resolve("
     }
     sheets.push({ title: entry.title, projectCode: entry.project?.toUpperCase() ?? null, tags: [...new Set(entry.tags)], author: entry.author, revisions });
   }
+  const documents: DemoDocument[] = [];
+  for (const entry of manifest.documents) {
+    if (!writers.has(entry.author)) problems.push(`${manifestFile}: "${entry.title}": author ${entry.author} is not a demo member who may write documents`);
+    let source: string;
+    try {
+      source = await readFile(path.join(contentDir, entry.file), "utf8");
+    } catch {
+      problems.push(`${manifestFile}: "${entry.title}": ${entry.file} does not exist`);
+      continue;
+    }
+    const prepared = prepareSheet(source, "document");
+    if (!prepared.ok) problems.push(...prepared.problems.map((p) => `${entry.file}:${p.line}:${p.column}: ${p.message}`));
+    else {
+      // Every citation must name a demo sheet and one of its revisions.
+      for (const c of prepared.citations) {
+        const sheet = sheets[(parseSheetNumber(c.sheet) ?? 0) - 1];
+        const revisionCount = sheet?.revisions.length ?? 0;
+        const index = c.rev.toUpperCase().charCodeAt(0) - 64;
+        if (!sheet || c.rev.length !== 1 || index < 1 || index > revisionCount) problems.push(`${entry.file}:${c.line}:${c.column}: cites ${c.sheet} rev ${c.rev}, which the demo does not have`);
+      }
+    }
+    documents.push({ title: entry.title, projectCode: entry.project.toUpperCase(), author: entry.author, file: entry.file, note: entry.note, source });
+  }
   if (problems.length > 0) throw new DemoContentError(problems);
-  return { projects: manifest.projects, sheets };
+  return { projects: manifest.projects, sheets, documents };
 }

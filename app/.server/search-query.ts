@@ -4,21 +4,27 @@ import { getCalculator } from "~/lib/calc/registry";
 import type { Dimension } from "~/lib/calc/types";
 import { parseQuantity, SI_UNIT } from "~/lib/calc/units";
 import type { Member } from "./access";
-import { sheetNumberLabel } from "~/lib/sheets/numbering";
+import { documentNumberLabel, sheetNumberLabel } from "~/lib/sheets/numbering";
 import { findBlocks, search, type SearchFilters, type SearchHit } from "./search";
 
-/** A hit as pages and the JSON API show it: the sheet's label and a link to the revision found. */
+/**
+ * A hit as pages and the JSON API show it: the sheet's (or document's) label and a link
+ * to the revision (or version) found.
+ */
 export function hitView(hit: SearchHit) {
-  const sheet = hit.sheetNumber ? sheetNumberLabel(hit.sheetNumber) : null;
+  const isDocument = hit.kind === "document";
+  const label = isDocument ? documentNumberLabel(hit.sheetNumber) : hit.sheetNumber ? sheetNumberLabel(hit.sheetNumber) : null;
+  const at = hit.revisionLabel ? `/${isDocument ? "versions" : "revisions"}/${hit.revisionLabel}` : "";
   return {
     kind: hit.kind,
-    sheet,
+    sheet: isDocument ? null : label,
+    document: isDocument ? label : null,
     title: hit.title,
     project: hit.projectCode,
     state: hit.state,
     revision: hit.revisionLabel,
     snippet: hit.snippet,
-    url: sheet ? `/sheets/${sheet}${hit.revisionLabel ? `/revisions/${hit.revisionLabel}` : ""}` : null,
+    url: label ? `/${isDocument ? "documents" : "sheets"}/${label}${at}` : null,
   };
 }
 

@@ -11,6 +11,7 @@ import { loadDemoSheets, type DemoContent } from "./demo-sheets";
 import { createProject } from "./projects";
 import { ROLES } from "./roles";
 import { addComment, returnRevision, stampRevision, submitForCheck } from "./review";
+import { createDocument, saveDocumentVersion } from "./documents";
 import { createSheet, saveRevision } from "./sheets";
 
 const demoTeam = z.object({
@@ -28,6 +29,7 @@ export interface SeededSheets {
   projects: number;
   sheets: number;
   revisions: number;
+  documents: number;
 }
 
 /**
@@ -116,5 +118,15 @@ The demo team and what came before were created, the rest was not: drop the data
       }
     }
   }
-  return { projects: content.projects.length, sheets: content.sheets.length, revisions };
+  for (const entry of content.documents) {
+    const author = asMember(entry.author);
+    try {
+      const document = await createDocument(author, { title: entry.title, projectId: projectIds.get(entry.projectCode)! });
+      const saved = await saveDocumentVersion(author, document, { source: entry.source, baseVersionId: null, note: entry.note });
+      if (!saved.ok) stop(entry.file, saved.reason === "invalid" ? saved.problems.map((p) => `line ${p.line}, column ${p.column}: ${p.message}`).join("; ") : saved.message);
+    } catch (error) {
+      stop(entry.file, error instanceof Error ? error.message : String(error));
+    }
+  }
+  return { projects: content.projects.length, sheets: content.sheets.length, revisions, documents: content.documents.length };
 }

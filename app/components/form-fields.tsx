@@ -57,21 +57,22 @@ interface SelectFieldProps {
   name: string;
   label: string;
   options: { value: string; label: string }[];
-  /** The first option, meaning "no filter" (value ""). */
+  /** The first option, meaning "no filter" or "none chosen" (value ""). */
   anyLabel?: string;
   defaultValue?: string | undefined;
   className?: string;
+  error?: string | undefined;
 }
 
-/** A labelled select, as the list filters use it. */
-export function SelectField({ name, label, options, anyLabel, defaultValue, className }: SelectFieldProps) {
+/** A labelled select, as the list filters and forms use it. */
+export function SelectField({ name, label, options, anyLabel, defaultValue, className, error }: SelectFieldProps) {
   const id = useId();
   return (
     <div className={className}>
       <label className="field-label" htmlFor={id}>
         {label}
       </label>
-      <select id={id} name={name} defaultValue={defaultValue ?? ""} className="field-input">
+      <select id={id} name={name} defaultValue={defaultValue ?? ""} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={error ? `${id}-error` : undefined}>
         {anyLabel !== undefined ? <option value="">{anyLabel}</option> : null}
         {options.map((o) => (
           <option key={o.value} value={o.value}>
@@ -79,6 +80,11 @@ export function SelectField({ name, label, options, anyLabel, defaultValue, clas
           </option>
         ))}
       </select>
+      {error ? (
+        <p id={`${id}-error`} className="field-error">
+          {error}
+        </p>
+      ) : null}
     </div>
   );
 }

@@ -9,15 +9,20 @@ import { createContext, useContext, useMemo, type ReactNode } from "react";
 import { Fragment, jsx, jsxs } from "react/jsx-runtime";
 import type { BlockOutcome, SheetEvaluation } from "~/lib/calc/evaluate-sheet";
 import { calculatorIds } from "~/lib/calc/registry";
+import { citationKey, type CitationState } from "~/lib/documents/citations";
 import { CalculatorBlock } from "./calc/calculator-block";
+import { CitationBadge } from "./citations";
 import { WarningMark } from "./calc/status-icons";
 
-/** What a citation of "SW-0001@B" points at, when the page knows it. */
+/** What a citation of "CS-0001@B" points at, when the page knows it. */
 export interface CitationTarget {
   title: string;
-  /** The cited revision's state in words, e.g. "checked", "draft", "superseded". */
-  state: string;
+  /** The citation's state ("verified", "superseded" …) and the same in words. */
+  state: CitationState;
+  words: string;
   href: string;
+  /** Its number in the document's reference list. */
+  reference: number;
 }
 
 export interface SheetViewProps {
@@ -27,7 +32,7 @@ export interface SheetViewProps {
   evaluation?: SheetEvaluation | undefined;
   editable?: boolean;
   onInputChange?: ((blockId: string, key: string, value: string) => void) | undefined;
-  /** Citation targets keyed "SW-0001@B"; without them a citation is plain text. */
+  /** Citation targets keyed "CS-0001@B"; without them a citation is plain text. */
   citations?: Record<string, CitationTarget> | undefined;
 }
 
@@ -91,11 +96,11 @@ function SheetCaution({ children }: { children?: ReactNode }) {
 
 function SheetCite({ sheet, rev }: { sheet?: unknown; rev?: unknown }) {
   const { citations } = useContext(SheetContext);
-  const number = typeof sheet === "string" ? sheet : "";
-  const revision = typeof rev === "string" ? rev : "";
+  const number = typeof sheet === "string" ? sheet.trim().toUpperCase() : "";
+  const revision = typeof rev === "string" ? rev.trim().toUpperCase() : "";
   const label = `${number} rev ${revision}`;
   if (!citations) return <span className="font-mono text-[0.9em] whitespace-nowrap">{label}</span>;
-  const target = citations[`${number}@${revision}`];
+  const target = citations[citationKey(number, revision)];
   if (!target) {
     return (
       <span className="font-mono text-[0.9em] whitespace-nowrap">
@@ -104,13 +109,15 @@ function SheetCite({ sheet, rev }: { sheet?: unknown; rev?: unknown }) {
     );
   }
   return (
-    <a
-      href={target.href}
-      className="inline-flex max-w-full items-baseline gap-1.5 rounded border border-rule-strong bg-sheet px-1.5 py-px align-baseline font-sans text-[0.85em] text-ink no-underline hover:border-copper"
-    >
-      <span className="font-mono font-medium text-copper-deep">{label}</span>{" "}
-      <span className="truncate">{target.title}</span> <span className="text-ink-faint">{`(${target.state})`}</span>
-    </a>
+    <span className="inline-flex max-w-full flex-wrap items-baseline gap-x-1.5 align-baseline">
+      <a href={target.href} className="font-mono text-[0.9em] font-medium whitespace-nowrap" title={`${target.title}: ${target.words}`}>
+        {label}
+      </a>
+      <a href={`#ref-${target.reference}`} className="font-mono text-[0.8em] text-ink-faint no-underline" aria-label={`reference ${target.reference}`}>
+        [{target.reference}]
+      </a>
+      <CitationBadge state={target.state} />
+    </span>
   );
 }
 

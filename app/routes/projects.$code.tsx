@@ -2,10 +2,12 @@ import { data, Form, Link, redirect, useActionData, useLoaderData, useNavigation
 import type { Route } from "./+types/projects.$code";
 import { EmptyState, PageHeader } from "~/components/empty-state";
 import { FormError, Notice, TextField } from "~/components/form-fields";
+import { StaleCitationList } from "~/components/citations";
 import { StatusBadge } from "~/components/status-badge";
 import { fieldErrors, type FieldErrors } from "~/lib/forms/account";
-import { projectForm } from "~/lib/forms/sheets";
+import { citationUpdateForm, projectForm } from "~/lib/forms/sheets";
 import { requireMember } from "~/.server/access";
+import { DocumentRuleError, listProjectDocuments, staleCitations, updateCitation } from "~/.server/documents";
 import { getProjectByCode, ProjectRuleError, updateProject } from "~/.server/projects";
 import { listSheets } from "~/.server/sheets";
 
@@ -15,11 +17,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const me = await requireMember(request, "viewer");
   const project = await getProjectByCode(me.team.teamId, params.code);
   if (!project) throw new Response(null, { status: 404 });
-  const { rows } = await listSheets(me.team.teamId, { projectId: project.id, sort: "number", direction: "asc", page: 1, pageSize: 500 });
+  const [{ rows }, documents, stale] = await Promise.all([
+    listSheets(me.team.teamId, { projectId: project.id, sort: "number", direction: "asc", page: 1, pageSize: 500 }),
+    listProjectDocuments(me.team.teamId, project.id),
+    staleCitations(me.team.teamId, project.id),
+  ]);
   return {
     canWrite: me.team.role !== "viewer",
     project: { id: project.id, code: project.code, name: project.name, client: project.client, description: project.description },
     sheets: rows,
+    documents: documents.map((d) => ({ id: d.id, label: d.label, title: d.title, version: d.version, authorName: d.authorName, updatedAt: d.updatedAt.toISOString() })),
+    stale,
   };
 }
 
@@ -27,22 +35,36 @@ export async function action({ request, params }: Route.ActionArgs) {
   const me = await requireMember(request, "engineer");
   const project = await getProjectByCode(me.team.teamId, params.code);
   if (!project) throw new Response(null, { status: 404 });
-  const parsed = projectForm.safeParse(Object.fromEntries(await request.formData()));
-  if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors, saved: false }, { status: 400 });
+  const form = Object.fromEntries(await request.formData());
+  if (form.intent === "update-citation") {
+    const citation = citationUpdateForm.safeParse(form);
+    if (!citation.success) return data({ errors: { citation: citation.error.issues[0]?.message ?? "The form was incomplete." } as FieldErrors, saved: false, updated: null }, { status: 400 });
+    try {
+      const updated = await updateCitation(me, citation.data.documentId, citation.data);
+      return { errors: {} as FieldErrors, saved: false, updated: `${updated.document} now cites ${updated.sheet} rev ${updated.to} (was ${updated.from}); saved as version ${updated.version}.` };
+    } catch (error) {
+      if (error instanceof DocumentRuleError) return data({ errors: { citation: error.message } as FieldErrors, saved: false, updated: null }, { status: 400 });
+      throw error;
+    }
+  }
+  const parsed = projectForm.safeParse(form);
+  if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors, saved: false, updated: null }, { status: 400 });
   try {
     const updated = await updateProject(me, project.id, parsed.data);
     if (updated.code !== project.code) throw redirect(`/projects/${updated.code}`);
-    return { errors: {} as FieldErrors, saved: true };
+    return { errors: {} as FieldErrors, saved: true, updated: null };
   } catch (error) {
-    if (error instanceof ProjectRuleError) return data({ errors: { [error.field ?? "form"]: error.message } as FieldErrors, saved: false }, { status: 400 });
+    if (error instanceof ProjectRuleError) return data({ errors: { [error.field ?? "form"]: error.message } as FieldErrors, saved: false, updated: null }, { status: 400 });
     throw error;
   }
 }
 
 export default function ProjectPage() {
-  const { canWrite, project, sheets } = useLoaderData<typeof loader>();
+  const { canWrite, project, sheets, documents, stale } = useLoaderData<typeof loader>();
   const result = useActionData<typeof action>();
-  const busy = useNavigation().state !== "idle";
+  const navigation = useNavigation();
+  const busy = navigation.state !== "idle";
+  const busyKey = navigation.formData?.get("intent") === "update-citation" ? `${String(navigation.formData.get("documentId"))}:${String(navigation.formData.get("sheet"))}@${String(navigation.formData.get("rev"))}` : null;
   return (
     <>
       <nav aria-label="Breadcrumb" className="mb-2 text-sm text-ink-faint">
@@ -50,13 +72,55 @@ export default function ProjectPage() {
       </nav>
       <PageHeader eyebrow={project.code} title={project.name}>
         {canWrite ? (
-          <Link to={`/sheets/new?project=${project.code}`} className="btn btn-primary">
-            New sheet in this project
-          </Link>
+          <>
+            <Link to={`/sheets/new?project=${project.code}`} className="btn btn-primary">
+              New sheet in this project
+            </Link>
+            <Link to={`/documents/new?project=${project.code}`} className="btn btn-quiet">
+              New document
+            </Link>
+          </>
         ) : null}
       </PageHeader>
       {project.client ? <p className="text-ink-soft">Client: {project.client}</p> : null}
       {project.description ? <p className="mt-2 max-w-3xl whitespace-pre-line text-ink-soft">{project.description}</p> : null}
+      <section aria-labelledby="stale-citations" className="mt-6">
+        <h2 id="stale-citations" className="mb-3 font-semibold">
+          Citations needing attention
+        </h2>
+        {result?.updated ? <Notice tone="success">{result.updated}</Notice> : null}
+        <FormError message={result?.errors.citation} />
+        {stale.length === 0 ? (
+          <p className="panel px-4 py-3 text-sm text-ink-soft">
+            {documents.length === 0 ? "No project documents yet." : "Every citation in this project's documents points at a verified revision that is still current."}
+          </p>
+        ) : (
+          <div className="panel border-[#e3cf8f]">
+            <StaleCitationList rows={stale} canUpdate={canWrite} showDocument busyKey={busyKey} />
+          </div>
+        )}
+      </section>
+      <section aria-labelledby="project-documents" className="mt-6">
+        <h2 id="project-documents" className="mb-3 font-semibold">
+          Documents
+        </h2>
+        {documents.length === 0 ? (
+          <EmptyState title="No documents in this project yet">Design reports, review packs and certification files that cite this project's checked sheets are listed here.</EmptyState>
+        ) : (
+          <ul className="panel divide-y divide-rule">
+            {documents.map((d) => (
+              <li key={d.id} className="flex flex-col gap-1 px-4 py-3 sm:flex-row sm:items-center sm:gap-4">
+                <Link to={`/documents/${d.label}`} className="w-24 font-mono">
+                  {d.label}
+                </Link>
+                <span className="flex-1">{d.title}</span>
+                <span className="font-mono text-xs text-ink-faint">{d.version ? `version ${d.version}` : "not saved yet"}</span>
+                <span className="text-xs text-ink-faint">{d.authorName ?? ""}</span>
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
       <section aria-labelledby="project-sheets" className="mt-6">
         <h2 id="project-sheets" className="mb-3 font-semibold">
           Calc sheets

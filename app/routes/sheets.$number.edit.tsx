@@ -1,13 +1,12 @@
-import { markdown } from "@codemirror/lang-markdown";
-import { EditorView } from "@codemirror/view";
-import CodeMirror from "@uiw/react-codemirror";
-import { useCallback, useDeferredValue, useEffect, useMemo, useRef, useState } from "react";
-import { data, Form, Link, redirect, useActionData, useFetcher, useLoaderData, useNavigation } from "react-router";
+import type { EditorView } from "@codemirror/view";
+import { useCallback, useDeferredValue, useMemo, useRef, useState } from "react";
+import { data, Form, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/sheets.$number.edit";
 import { HardwareCaution } from "~/components/caution";
 import { FormError, Notice } from "~/components/form-fields";
 import { SheetView } from "~/components/sheet-view";
+import { insertAtCursor, SourceCodeEditor, SourceProblems, useAutosavedSource } from "~/components/source-editor";
 import { blockSnippet, checkSheetSource, nextBlockId, setBlockInput } from "~/lib/mdx";
 import { SOURCE_LIMITS, type SourceProblem } from "~/lib/mdx/types";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
@@ -73,40 +72,15 @@ export async function action({ request, params }: Route.ActionArgs) {
   return data({ problems: [] as SourceProblem[], conflict: outcome.message as string | null, error: null as string | null, savedAt: null as string | null }, { status: 409 });
 }
 
-const AUTOSAVE_DELAY_MS = 2_000;
-// The editable area itself carries the name and an explicit tab stop, for screen readers and keyboard users.
-const EDITOR_EXTENSIONS = [markdown(), EditorView.contentAttributes.of({ "aria-label": "Sheet source (MDX)", tabindex: "0" }), EditorView.lineWrapping];
-
 export default function SheetEditor() {
   const loaded = useLoaderData<typeof loader>();
   const result = useActionData<typeof action>();
   const navigation = useNavigation();
-  const autosave = useFetcher<typeof action>();
-  const [source, setSource] = useState(loaded.source);
-  const [dirty, setDirty] = useState(false);
+  const { source, edit, latest: latestSource, status } = useAutosavedSource(loaded.source, { field: "baseRevisionId", id: loaded.base?.id ?? null });
   const [writeBackError, setWriteBackError] = useState<string | null>(null);
   const view = useRef<EditorView | null>(null);
   const deferredSource = useDeferredValue(source);
   const prepared = useMemo(() => prepareSheet(deferredSource, "sheet"), [deferredSource]);
-
-  // Keep the author's work: autosave a draft shortly after typing stops.
-  useEffect(() => {
-    if (!dirty) return;
-    const timer = setTimeout(() => {
-      autosave.submit({ intent: "autosave", source, baseRevisionId: loaded.base?.id ?? "" }, { method: "post" });
-      setDirty(false);
-    }, AUTOSAVE_DELAY_MS);
-    return () => clearTimeout(timer);
-  }, [source, dirty, autosave, loaded.base?.id]);
-
-  // The latest source, even between renders: two quick edits must build on each other.
-  const latestSource = useRef(source);
-  const edit = useCallback((next: string) => {
-    latestSource.current = next;
-    setSource(next);
-    setDirty(true);
-  }, []);
-
 
   const onInputChange = useCallback(
     (blockId: string, key: string, value: string) => {
@@ -130,19 +104,11 @@ export default function SheetEditor() {
   const insertBlock = (calculatorId: string) => {
     const existing = prepared.ok ? prepared.blocks.map((b) => b.id) : [];
     const snippet = `\n${blockSnippet(calculatorId, nextBlockId(calculatorId, existing))}\n`;
-    const editor = view.current;
-    if (editor) {
-      const at = editor.state.selection.main.head;
-      editor.dispatch({ changes: { from: at, insert: snippet }, selection: { anchor: at + snippet.length } });
-      editor.focus();
-    } else {
-      edit(source + snippet);
-    }
+    insertAtCursor(view.current, snippet, () => edit(source + snippet));
   };
 
   const problems = result?.problems?.length ? result.problems : prepared.ok ? [] : prepared.problems;
   const saving = navigation.state !== "idle" && navigation.formData?.get("intent") === "save";
-  const autosavedAt = autosave.data?.savedAt;
 
   return (
     <div className="space-y-4">
@@ -158,7 +124,7 @@ export default function SheetEditor() {
           <h1 className="font-serif text-2xl font-semibold">{loaded.sheet.title}</h1>
         </div>
         <p className="text-xs text-ink-faint" role="status" aria-live="polite">
-          {autosave.state !== "idle" ? "Saving draft…" : autosavedAt ? `Draft kept at ${autosavedAt.slice(11, 19)} UTC` : dirty ? "Unsaved changes" : ""}
+          {status}
         </p>
       </header>
 
@@ -192,20 +158,7 @@ export default function SheetEditor() {
             </h2>
             <span className="text-xs text-ink-faint">{source.length.toLocaleString("en")} characters</span>
           </div>
-          <div className="overflow-hidden rounded-md border border-rule-strong bg-white text-sm">
-            <CodeMirror
-              value={source}
-              onChange={edit}
-              extensions={EDITOR_EXTENSIONS}
-              indentWithTab={false}
-              basicSetup={{ foldGutter: false, highlightActiveLine: false }}
-              minHeight="28rem"
-              maxHeight="70vh"
-              onCreateEditor={(editorView) => {
-                view.current = editorView;
-              }}
-            />
-          </div>
+          <SourceCodeEditor source={source} onChange={edit} label="Sheet source (MDX)" view={view} />
           <details className="panel p-3" open>
             <summary className="cursor-pointer text-sm font-semibold">Insert a calculator</summary>
             <ul className="mt-2 grid gap-1 sm:grid-cols-2">
@@ -222,21 +175,7 @@ export default function SheetEditor() {
               Blocks are inserted at the cursor with every input at its default. <Link to="/calculators">What each calculator does</Link>
             </p>
           </details>
-          {problems.length > 0 ? (
-            <div role="alert" className="panel border-[#e2b4b0] p-3">
-              <h3 className="text-sm font-semibold text-danger">Problems in the source</h3>
-              <ul className="mt-1 space-y-1 text-sm">
-                {problems.map((p, i) => (
-                  <li key={i}>
-                    <span className="font-mono text-ink-faint">
-                      {`line ${p.line}, column ${p.column}:`}
-                    </span>{" "}
-                    {p.message}
-                  </li>
-                ))}
-              </ul>
-            </div>
-          ) : null}
+          <SourceProblems problems={problems} />
           <Form method="post" className="panel flex flex-col gap-3 p-3 sm:flex-row sm:items-end">
             <input type="hidden" name="intent" value="save" />
             <input type="hidden" name="source" value={source} />

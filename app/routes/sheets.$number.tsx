@@ -17,6 +17,7 @@ import { requireMember, type Member } from "~/.server/access";
 import { roleAtLeast } from "~/.server/roles";
 import { addComment, checkIntegrity, eligibleCheckers, recordCheckValues, resolveComment, returnRevision, ReviewRuleError, revisionReview, sheetAudit, stampRevision, submitForCheck } from "~/.server/review";
 import { storedEvaluation } from "~/.server/sheet-view";
+import { citingDocuments } from "~/.server/documents";
 import { listProjects } from "~/.server/projects";
 import { getRevision, getRevisionById, getSheet, listRevisions, reuseRevision, revisionBlocks, sheetLineage, SheetRuleError } from "~/.server/sheets";
 import { sheetNumberLabel } from "~/lib/sheets/numbering";
@@ -102,6 +103,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     audit: (await sheetAudit(sheet.id, 40)).map((e) => ({ id: e.id, action: e.action, detail: e.detail as Record<string, unknown>, createdAt: e.createdAt.toISOString(), actorName: e.actorName })),
     revisions: revisions.map((r) => ({ label: r.label, state: r.state, note: r.note, authorName: r.authorName, createdAt: r.createdAt.toISOString(), contentHash: r.contentHash })),
     lineage: await sheetLineage(sheet.id, sheet.derivedFromRevisionId),
+    citedIn: await citingDocuments(me.team.teamId, sheet.number),
     projects: canWrite ? (await listProjects(me.team.teamId)).map((p) => ({ id: p.id, label: `${p.code} — ${p.name}` })) : [],
   };
 }
@@ -168,7 +170,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function SheetPage() {
-  const { teamName, me, canWrite, sheet, revision, stored, revisions, integrity, review, can, checkers, anchors, blocks, audit, lineage, projects } = useLoaderData<typeof loader>();
+  const { teamName, me, canWrite, sheet, revision, stored, revisions, integrity, review, can, checkers, anchors, blocks, audit, lineage, citedIn, projects } = useLoaderData<typeof loader>();
   const result = useActionData<typeof action>();
   const projectLabel = sheet.projectCode ? `${sheet.projectCode} — ${sheet.projectName}` : "Team library";
   const stampValid = Boolean(review?.stamp && integrity?.stampValid);
@@ -282,6 +284,20 @@ export default function SheetPage() {
             </p>
           ) : null}
         </section>
+      ) : null}
+      {citedIn.length > 0 ? (
+        <p className="text-sm text-ink-soft">
+          Cited in:{" "}
+          {citedIn.map((d, i) => (
+            <span key={`${d.label}@${d.rev}`}>
+              {i > 0 ? ", " : ""}
+              <Link to={`/documents/${d.label}`} className="font-mono">
+                {d.label}
+              </Link>
+              {` ${d.title} (${d.projectCode}, rev ${d.rev})`}
+            </span>
+          ))}
+        </p>
       ) : null}
       <HardwareCaution compact />
       {revision && stored ? (

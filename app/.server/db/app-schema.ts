@@ -273,6 +273,89 @@ export const notification = pgTable(
   (t) => [index("notification_user_idx").on(t.userId, t.createdAt)],
 );
 
+/** A project document (design report, review pack, certification file): MDX that cites calc-sheet revisions. */
+export const projectDocument = pgTable(
+  "project_document",
+  {
+    id: id(),
+    teamId: text("team_id")
+      .notNull()
+      .references(() => organization.id, { onDelete: "cascade" }),
+    /** Per team: PD-0001 … */
+    number: integer("number").notNull(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => project.id, { onDelete: "restrict" }),
+    title: text("title").notNull(),
+    latestVersionId: text("latest_version_id"),
+    createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("project_document_team_number_idx").on(t.teamId, t.number), index("project_document_project_idx").on(t.projectId)],
+);
+
+/** One saved version of a document (1, 2, 3 …): its text never changes once written. */
+export const documentVersion = pgTable(
+  "document_version",
+  {
+    id: id(),
+    documentId: text("document_id")
+      .notNull()
+      .references(() => projectDocument.id, { onDelete: "restrict" }),
+    teamId: text("team_id").notNull(),
+    sequence: integer("sequence").notNull(),
+    source: text("source").notNull(),
+    renderTree: jsonb("render_tree").notNull(),
+    note: text("note").notNull().default(""),
+    authorId: text("author_id").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("document_version_document_sequence_idx").on(t.documentId, t.sequence)],
+);
+
+/**
+ * Each citation of each document version as a row, so a project can list its stale
+ * citations and a sheet its citing documents without parsing every document.
+ */
+export const documentCitation = pgTable(
+  "document_citation",
+  {
+    id: id(),
+    versionId: text("version_id")
+      .notNull()
+      .references(() => documentVersion.id, { onDelete: "restrict" }),
+    documentId: text("document_id").notNull(),
+    teamId: text("team_id").notNull(),
+    /** Order of first appearance: reference [1], [2] … */
+    position: integer("position").notNull(),
+    /** As written: "CS-0003" and "B". */
+    sheet: text("sheet").notNull(),
+    rev: text("rev").notNull(),
+    /** The sheet's number, when the text names one in this team's numbering. */
+    sheetNumber: integer("sheet_number"),
+  },
+  (t) => [uniqueIndex("document_citation_version_ref_idx").on(t.versionId, t.sheet, t.rev), index("document_citation_team_sheet_idx").on(t.teamId, t.sheetNumber)],
+);
+
+/** The autosaved working copy of a document, one per author and document. */
+export const documentDraft = pgTable(
+  "document_draft",
+  {
+    id: id(),
+    documentId: text("document_id")
+      .notNull()
+      .references(() => projectDocument.id, { onDelete: "cascade" }),
+    authorId: text("author_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    source: text("source").notNull(),
+    baseVersionId: text("base_version_id"),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("document_draft_document_author_idx").on(t.documentId, t.authorId)],
+);
+
 const tsvector = customType<{ data: string }>({ dataType: () => "tsvector" });
 
 /**

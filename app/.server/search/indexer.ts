@@ -10,7 +10,7 @@ import { getCalculator } from "~/lib/calc/registry";
 import { blockValuesText, proseText, type IndexedBlock } from "~/lib/search/document-text";
 import { config } from "../config";
 import type { Database } from "../db/client";
-import { calcSheet, outbox, project, revisionBlock, searchDocument, sheetRevision } from "../db/schema";
+import { calcSheet, documentCitation, documentVersion, outbox, project, projectDocument, revisionBlock, searchDocument, sheetRevision } from "../db/schema";
 import { kickOutbox } from "../mail/outbox";
 import type { SearchDocument } from "./types";
 
@@ -75,6 +75,59 @@ export async function buildSheetDocument(tx: Tx, sheetId: string): Promise<Searc
   };
 }
 
+/**
+ * Builds a project document's search document from its latest version: title, project,
+ * prose, and the citations it holds ("CS-0003 rev B"), so searching a sheet's number
+ * finds the documents that cite it.
+ */
+export async function buildProjectDocument(tx: Tx, documentId: string): Promise<SearchDocument | undefined> {
+  const [row] = await tx
+    .select({ document: projectDocument, projectCode: project.code, projectName: project.name })
+    .from(projectDocument)
+    .innerJoin(project, eq(project.id, projectDocument.projectId))
+    .where(eq(projectDocument.id, documentId));
+  if (!row) return undefined;
+  const { document: d } = row;
+  const [version] = d.latestVersionId
+    ? await tx
+        .select({ id: documentVersion.id, sequence: documentVersion.sequence, renderTree: documentVersion.renderTree, createdAt: documentVersion.createdAt })
+        .from(documentVersion)
+        .where(eq(documentVersion.id, d.latestVersionId))
+    : [];
+  const citations = version
+    ? await tx.select({ sheet: documentCitation.sheet, rev: documentCitation.rev }).from(documentCitation).where(eq(documentCitation.versionId, version.id)).orderBy(asc(documentCitation.position))
+    : [];
+  const authors = await tx.selectDistinct({ authorId: documentVersion.authorId }).from(documentVersion).where(eq(documentVersion.documentId, documentId));
+  return {
+    id: d.id,
+    kind: "document",
+    teamId: d.teamId,
+    sheetId: null,
+    number: d.number,
+    title: d.title,
+    projectId: d.projectId,
+    projectCode: row.projectCode,
+    tags: [],
+    calculators: [],
+    authorIds: authors.map((a) => a.authorId).filter((id): id is string => Boolean(id)).sort(),
+    revisionId: version?.id ?? null,
+    revisionLabel: version ? String(version.sequence) : null,
+    state: version ? "document" : "unsaved",
+    keywords: ["project document", row.projectCode, row.projectName].join("\n"),
+    body: version ? proseText(version.renderTree as HastRoot) : "",
+    blockValues: citations.map((c) => `cites ${c.sheet} rev ${c.rev}`).join("\n"),
+    updatedAt: d.updatedAt,
+  };
+}
+
+/** Re-indexes one project document inside the caller's transaction. */
+export async function indexDocument(tx: Tx, documentId: string): Promise<void> {
+  const doc = await buildProjectDocument(tx, documentId);
+  if (!doc) return removeFromSearch(tx, documentId);
+  await upsertSearchDocument(tx, doc);
+  await queueCopy(tx, doc.id);
+}
+
 /** Writes a search document row (insert or replace). */
 export async function upsertSearchDocument(tx: Pick<Database, "insert">, doc: SearchDocument): Promise<void> {
   const { id, ...rest } = doc;
@@ -123,7 +176,19 @@ export async function rebuildSearchDocuments(db: Database, onProgress?: (done: n
     after = batch.at(-1)!.id;
     onProgress?.(done);
   }
-  // Rows whose sheet is gone (a document kind without its own rebuild yet keeps its rows).
+  const documents = await db.select({ id: projectDocument.id }).from(projectDocument).orderBy(asc(projectDocument.id));
+  for (let i = 0; i < documents.length; i += 200) {
+    await db.transaction(async (tx) => {
+      for (const { id } of documents.slice(i, i + 200)) {
+        const doc = await buildProjectDocument(tx, id);
+        if (doc) await upsertSearchDocument(tx, doc);
+      }
+    });
+    done += Math.min(200, documents.length - i);
+    onProgress?.(done);
+  }
+  // Rows whose sheet or document is gone.
   await db.delete(searchDocument).where(sql`${searchDocument.kind} = 'sheet' and not exists (select 1 from calc_sheet s where s.id = ${searchDocument.sheetId})`);
+  await db.delete(searchDocument).where(sql`${searchDocument.kind} = 'document' and not exists (select 1 from project_document p where p.id = ${searchDocument.id})`);
   return done;
 }

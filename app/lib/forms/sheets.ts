@@ -22,3 +22,16 @@ export const projectForm = z.object({
   client: z.string().trim().max(120, "Keep the client under 120 characters.").default(""),
   description: z.string().trim().max(2000, "Keep the description under 2000 characters.").default(""),
 });
+
+export const documentDetailsForm = z.object({
+  title: z.string().trim().min(3, "Give the document a title of at least 3 characters, e.g. “Design report, 3 kW pump inverter”.").max(160, "Keep the title under 160 characters."),
+  projectId: z.string().trim().min(1, "Choose the project this document belongs to."),
+});
+
+/** One citation a project panel or document page asks to move to its sheet's newest verified revision. */
+export const citationUpdateForm = z.object({
+  intent: z.literal("update-citation"),
+  documentId: z.string().min(1, "Say which document holds the citation."),
+  sheet: z.string().trim().min(1, "Say which sheet the citation names.").max(20),
+  rev: z.string().trim().min(1, "Say which revision the citation names.").max(4),
+});

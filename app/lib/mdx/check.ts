@@ -171,7 +171,10 @@ class SourceWalk {
 
     const calculatorId = calculatorIdOf(name);
     if (calculatorId !== undefined) {
-      if (attributesSound) this.checkBlock(node, name, calculatorId);
+      if (this.kind === "document") {
+        // A calculation in a report would escape the check; it belongs in a sheet the report cites.
+        this.problem(node, `Calculations belong in calc sheets, where a checker verifies them. Put this ${name} in a sheet and cite its revision here: <Cite sheet="CS-0001" rev="A" />.`);
+      } else if (attributesSound) this.checkBlock(node, name, calculatorId);
       this.refuseChildren(node, `A calculator block holds no text; write it as <${name} id="…" … />.`);
       return false;
     }
@@ -291,10 +294,12 @@ class SourceWalk {
 
   private checkCitation(node: JsxElement): void {
     const values: Record<string, string> = {};
+    let revSpan: AttributeSpan | undefined;
     for (const attribute of node.attributes) {
       if (attribute.type !== "mdxJsxAttribute" || typeof attribute.value !== "string") continue;
       if (attribute.name === "sheet" || attribute.name === "rev") values[attribute.name] = attribute.value;
       else this.problem(attribute, `Cite has no attribute "${attribute.name}". Write it as <Cite sheet="…" rev="…" />.`);
+      if (attribute.name === "rev") revSpan = this.span(attribute);
     }
     const sheet = values.sheet?.trim();
     const rev = values.rev?.trim();
@@ -305,7 +310,7 @@ class SourceWalk {
     if (this.citations.length === SOURCE_LIMITS.maxCitations) {
       this.problem(node, `A document may hold at most ${SOURCE_LIMITS.maxCitations} citations. Split it into several documents.`);
     }
-    this.citations.push({ sheet, rev, ...this.place(node) });
+    this.citations.push({ sheet, rev, ...this.place(node), revSpan: revSpan! });
   }
 
   private checkHtmlAttributes(node: JsxElement, name: string, allowed: readonly string[]): void {

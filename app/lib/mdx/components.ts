@@ -70,10 +70,8 @@ export function calculatorIdOf(componentName: string): string | undefined {
 
 /** Component names an author may use in a source of this kind, for messages and the help page. */
 export function allowedComponentNames(kind: SourceKind): string[] {
-  const names = CALCULATOR_COMPONENTS.map((entry) => entry.component);
-  names.push(CAUTION_COMPONENT);
-  if (kind === "document") names.push(CITE_COMPONENT);
-  return names;
+  if (kind === "document") return [CAUTION_COMPONENT, CITE_COMPONENT];
+  return [...CALCULATOR_COMPONENTS.map((entry) => entry.component), CAUTION_COMPONENT];
 }
 
 /**

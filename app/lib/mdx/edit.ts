@@ -1,7 +1,7 @@
 /** Writing an input edited in a block's form back into the sheet's MDX source. */
 import { getCalculator } from "../calc/registry";
 import { quoteAttributeValue } from "./components";
-import type { SourceBlock } from "./types";
+import type { SourceBlock, SourceCitation } from "./types";
 
 /**
  * The source with `key` of `block` set to `value`: the attribute's value is
@@ -48,4 +48,20 @@ function stillMatches(source: string, block: SourceBlock): boolean {
       span.valueEnd === span.end - 1
     );
   });
+}
+
+/**
+ * The source with every citation of `sheet` at revision `from` moved to revision `to`;
+ * only the rev values change. `citations` are the source's checked citations.
+ */
+export function setCitationRevision(source: string, citations: readonly SourceCitation[], sheet: string, from: string, to: string): string {
+  if (!/^[A-Z]{1,3}$/.test(to)) throw new Error(`"${to}" is not a revision label (A, B … AA).`);
+  const targets = citations.filter((c) => c.sheet.toUpperCase() === sheet.toUpperCase() && c.rev.toUpperCase() === from.toUpperCase());
+  if (targets.length === 0) throw new Error(`The document no longer cites ${sheet} revision ${from}.`);
+  // Right to left, so earlier offsets stay valid.
+  let next = source;
+  for (const c of [...targets].sort((a, b) => b.revSpan.valueStart - a.revSpan.valueStart)) {
+    next = next.slice(0, c.revSpan.valueStart) + to + next.slice(c.revSpan.valueEnd);
+  }
+  return next;
 }

@@ -13,5 +13,5 @@ export {
   SOURCE_BLOCK_ID_PATTERN,
   type CalculatorComponent,
 } from "./components";
-export { setBlockInput } from "./edit";
+export { setBlockInput, setCitationRevision } from "./edit";
 export * from "./types";

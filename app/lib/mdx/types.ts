@@ -55,13 +55,15 @@ export interface SourceCitation {
   rev: string;
   line: number;
   column: number;
+  /** Where the rev attribute sits, so an update to a newer revision rewrites only that value. */
+  revSpan: AttributeSpan;
 }
 
 export type CheckedSource =
   | { ok: true; blocks: SourceBlock[]; citations: SourceCitation[]; tree: HastRoot }
   | { ok: false; problems: SourceProblem[] };
 
-/** What kind of document a source is: sheets hold calculators; documents hold citations (and may hold calculators). */
+/** What kind of document a source is: sheets hold calculators; documents hold citations (never calculators: those are checked in sheets). */
 export type SourceKind = "sheet" | "document";
 
 export const SOURCE_LIMITS = {

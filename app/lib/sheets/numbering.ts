@@ -1,17 +1,27 @@
-/** Sheets are numbered per team: CS-0001, CS-0002 … ("calc sheet"). */
-const PREFIX = "CS-";
-
-export function sheetNumberLabel(number: number): string {
-  return `${PREFIX}${String(number).padStart(4, "0")}`;
+/**
+ * Team-wide numbers: calc sheets CS-0001 … and project documents PD-0001 …; each
+ * parser accepts "CS-0007", "cs-7" or "7" and gives undefined for anything else.
+ */
+function numbering(prefix: string) {
+  const pattern = new RegExp(`^(?:${prefix})?0*(\\d{1,9})$`, "i");
+  return {
+    label: (number: number) => `${prefix}${String(number).padStart(4, "0")}`,
+    parse: (text: string): number | undefined => {
+      const match = pattern.exec(text.trim());
+      if (!match) return undefined;
+      const n = Number(match[1]);
+      return n > 0 ? n : undefined;
+    },
+  };
 }
 
-/** Accepts "CS-0007", "cs-7" or "7"; undefined for anything else. */
-export function parseSheetNumber(text: string): number | undefined {
-  const match = /^(?:cs-)?0*(\d{1,9})$/i.exec(text.trim());
-  if (!match) return undefined;
-  const n = Number(match[1]);
-  return n > 0 ? n : undefined;
-}
+const sheetNumbers = numbering("CS-");
+const documentNumbers = numbering("PD-");
+
+export const sheetNumberLabel = sheetNumbers.label;
+export const parseSheetNumber = sheetNumbers.parse;
+export const documentNumberLabel = documentNumbers.label;
+export const parseDocumentNumber = documentNumbers.parse;
 
 /** Revision labels run A … Z, then AA, AB … like drawing revisions. */
 export function revisionLabel(sequence: number): string {

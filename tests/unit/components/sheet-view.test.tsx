@@ -81,17 +81,20 @@ describe("the sheet view", () => {
     expect(html).not.toContain("/sheets/SW-0001");
   });
 
-  it("links a citation to its revision with the title and state when the page knows it", () => {
+  it("links a citation to its revision, numbers it, and shows its state when the page knows it", () => {
     const cited = render(
       <SheetView
         tree={sheetTree()}
         inputsById={inputsById}
         evaluation={evaluation}
-        citations={{ "SW-0001@B": { title: "DC-link sizing", state: "checked", href: "/sheets/SW-0001/revisions/B" } }}
+        citations={{ "SW-0001@B": { title: "DC-link sizing", state: "superseded", words: "superseded by revision C (verified)", href: "/sheets/SW-0001/revisions/B", reference: 2 } }}
       />,
     );
-    const link = cited.match(/<a href="\/sheets\/SW-0001\/revisions\/B"[^>]*>[\s\S]*?<\/a>/)?.[0];
-    expect(textOf(link ?? "")).toBe("SW-0001 rev B DC-link sizing (checked)");
+    const link = cited.match(/<a href="\/sheets\/SW-0001\/revisions\/B"[^>]*>[\s\S]*?<\/a>/)?.[0] ?? "";
+    expect(textOf(link)).toBe("SW-0001 rev B");
+    expect(link).toContain('title="DC-link sizing: superseded by revision C (verified)"');
+    expect(textOf(cited)).toMatch(/SW-0001 rev B\s*\[2\]\s*⇡\s*Superseded/);
+    expect(cited).toContain('href="#ref-2"');
     const missing = render(<SheetView tree={sheetTree()} inputsById={inputsById} evaluation={evaluation} citations={{}} />);
     expect(textOf(missing)).toContain("SW-0001 rev B (not found)");
   });

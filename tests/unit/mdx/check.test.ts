@@ -190,8 +190,18 @@ describe("cautions and citations", () => {
 
   it("reads citations in project documents", () => {
     const checked = checkedOk('# Design review\n\nThe link is sized in <Cite sheet="CS-0003" rev="B" />.\n', "document");
-    expect(checked.citations).toEqual([{ sheet: "CS-0003", rev: "B", line: 3, column: 22 }]);
+    const source = '# Design review\n\nThe link is sized in <Cite sheet="CS-0003" rev="B" />.\n';
+    expect(checked.citations).toEqual([{ sheet: "CS-0003", rev: "B", line: 3, column: 22, revSpan: expect.any(Object) }]);
+    const span = checked.citations[0]!.revSpan;
+    expect(source.slice(span.valueStart, span.valueEnd)).toBe("B");
+    expect(source.slice(span.start, span.end)).toBe('rev="B"');
     expect(elementsOf(checked.tree).find((e) => e.tagName === "Cite")?.properties).toEqual({ sheet: "CS-0003", rev: "B" });
+  });
+
+  it("refuses calculators in project documents: calculations are checked in sheets and cited", () => {
+    expect(problemsOf('Ripple:\n\n<DcLink id="dc1" />\n', "document")).toEqual([
+      { message: expect.stringMatching(/Calculations belong in calc sheets.*cite its revision/), line: 3, column: 1 },
+    ]);
   });
 
   it("refuses citations in calc sheets, and incomplete ones in documents", () => {
