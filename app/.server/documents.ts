@@ -28,7 +28,7 @@ What this document covers, for whom, and which design it describes.
 
 ## Design basis
 
-Cite each checked calculation the design rests on, e.g. <Cite sheet="CS-0001" rev="A" />.
+Cite each checked calculation the design rests on with the palette, or by hand as \`<Cite sheet="CS-0001" rev="A" />\`.
 
 ## Conclusions
 `;
@@ -364,7 +364,7 @@ export async function updateCitation(me: Member, documentId: string, citation: {
     }
     const next = prepareSheet(source, "document");
     if (!next.ok) throw new DocumentRuleError("The updated citation did not pass the source check; edit the document instead.");
-    const note = `Citation ${status.sheet} moved from revision ${status.rev} (${status.words}) to ${status.updateTo.label} (verified).`;
+    const note = `Citation ${status.sheet} moved from revision ${status.rev} (${status.state}) to ${status.updateTo.label}, its newest verified revision.`;
     const saved = await writeVersion(tx, me, current, { source, tree: next.tree, citations: next.citations, note });
     await recordAudit(
       {

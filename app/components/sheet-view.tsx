@@ -20,7 +20,8 @@ export interface CitationTarget {
   /** The citation's state ("verified", "superseded" …) and the same in words. */
   state: CitationState;
   words: string;
-  href: string;
+  /** Null when the cited sheet does not exist. */
+  href: string | null;
   /** Its number in the document's reference list. */
   reference: number;
 }
@@ -110,9 +111,13 @@ function SheetCite({ sheet, rev }: { sheet?: unknown; rev?: unknown }) {
   }
   return (
     <span className="inline-flex max-w-full flex-wrap items-baseline gap-x-1.5 align-baseline">
-      <a href={target.href} className="font-mono text-[0.9em] font-medium whitespace-nowrap" title={`${target.title}: ${target.words}`}>
-        {label}
-      </a>
+      {target.href ? (
+        <a href={target.href} className="font-mono text-[0.9em] font-medium whitespace-nowrap" title={`${target.title}: ${target.words}`}>
+          {label}
+        </a>
+      ) : (
+        <span className="font-mono text-[0.9em] font-medium whitespace-nowrap">{label}</span>
+      )}
       <a href={`#ref-${target.reference}`} className="font-mono text-[0.8em] text-ink-faint no-underline" aria-label={`reference ${target.reference}`}>
         [{target.reference}]
       </a>

@@ -113,7 +113,7 @@ export default function DocumentEditor() {
     }
     const references = [...seen.values()];
     const targets: Record<string, CitationTarget> = Object.fromEntries(
-      references.map((r, i) => [r.key, { title: r.title ?? "", state: r.state, words: r.words, href: r.href ?? "#", reference: i + 1 }]),
+      references.map((r, i) => [r.key, { title: r.title ?? "", state: r.state, words: r.words, href: r.href, reference: i + 1 }]),
     );
     return { targets, references };
   }, [prepared, loaded.sheets]);

@@ -64,7 +64,7 @@ export default function DocumentPage() {
   const result = useActionData<typeof action>();
   const navigation = useNavigation();
   const targets = useMemo(
-    () => Object.fromEntries(citations.map((c, i) => [c.key, { title: c.title ?? "", state: c.state, words: c.words, href: c.href ?? "#", reference: i + 1 } satisfies CitationTarget])),
+    () => Object.fromEntries(citations.map((c, i) => [c.key, { title: c.title ?? "", state: c.state, words: c.words, href: c.href, reference: i + 1 } satisfies CitationTarget])),
     [citations],
   );
   const stale = citations.filter((c) => c.stale);

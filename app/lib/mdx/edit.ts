@@ -1,5 +1,6 @@
 /** Writing an input edited in a block's form back into the sheet's MDX source. */
 import { getCalculator } from "../calc/registry";
+import { parseSheetNumber } from "../sheets/numbering";
 import { quoteAttributeValue } from "./components";
 import type { SourceBlock, SourceCitation } from "./types";
 
@@ -56,7 +57,7 @@ function stillMatches(source: string, block: SourceBlock): boolean {
  */
 export function setCitationRevision(source: string, citations: readonly SourceCitation[], sheet: string, from: string, to: string): string {
   if (!/^[A-Z]{1,3}$/.test(to)) throw new Error(`"${to}" is not a revision label (A, B … AA).`);
-  const targets = citations.filter((c) => c.sheet.toUpperCase() === sheet.toUpperCase() && c.rev.toUpperCase() === from.toUpperCase());
+  const targets = citations.filter((c) => sameSheet(c.sheet, sheet) && c.rev.trim().toUpperCase() === from.trim().toUpperCase());
   if (targets.length === 0) throw new Error(`The document no longer cites ${sheet} revision ${from}.`);
   // Right to left, so earlier offsets stay valid.
   let next = source;
@@ -64,4 +65,10 @@ export function setCitationRevision(source: string, citations: readonly SourceCi
     next = next.slice(0, c.revSpan.valueStart) + to + next.slice(c.revSpan.valueEnd);
   }
   return next;
+}
+
+/** "CS-0003", "cs-3" and "3" name the same sheet. */
+function sameSheet(a: string, b: string): boolean {
+  const [na, nb] = [parseSheetNumber(a), parseSheetNumber(b)];
+  return na !== undefined && nb !== undefined ? na === nb : a.trim().toUpperCase() === b.trim().toUpperCase();
 }
