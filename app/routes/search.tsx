@@ -16,15 +16,8 @@ import type { loader as apiLoader } from "./api.v1.search";
 
 export const meta: Route.MetaFunction = () => [{ title: "Search · Sinewright" }];
 
-interface Hit {
-  sheet: string | null;
-  title: string;
-  project: string | null;
-  state: string;
-  revision: string | null;
-  snippet: { text: string; hit: boolean }[];
-  url: string | null;
-}
+/** A hit as the API sends it (sheets and project documents). */
+type Hit = ReturnType<typeof hitView>;
 
 export async function loader({ request }: Route.LoaderArgs) {
   const me = await requireMember(request, "viewer");
@@ -154,13 +147,13 @@ export default function Search() {
         ) : (
           <>
             <p className="text-sm text-ink-faint">
-              {showing.total} {showing.total === 1 ? "sheet" : "sheets"}
+              {showing.total} {showing.total === 1 ? "result" : "results"}
             </p>
             <ol className="mt-2 space-y-3">
               {showing.hits.map((hit) => (
-                <li key={`${hit.sheet}-${hit.revision}`} className="panel p-4">
+                <li key={hit.url ?? `${hit.sheet ?? hit.document}-${hit.revision}`} className="panel p-4">
                   <div className="flex flex-wrap items-center gap-2">
-                    <span className="font-mono text-sm text-ink-faint">{hit.sheet}</span>
+                    <span className="font-mono text-sm text-ink-faint">{hit.sheet ?? hit.document}</span>
                     {hit.url ? (
                       <Link to={hit.url} className="font-medium">
                         {hit.title}
@@ -168,7 +161,11 @@ export default function Search() {
                     ) : (
                       <span className="font-medium">{hit.title}</span>
                     )}
-                    <StatusBadge status={hit.state} />
+                    {hit.kind === "document" ? (
+                      <span className="rounded-full border border-rule-strong px-2 py-0.5 text-xs text-ink-soft">{`Project document · version ${hit.revision ?? "—"}`}</span>
+                    ) : (
+                      <StatusBadge status={hit.state} />
+                    )}
                     {hit.project ? <span className="text-xs text-ink-faint">{hit.project}</span> : null}
                   </div>
                   <Snippet parts={hit.snippet} />
