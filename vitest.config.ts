@@ -11,7 +11,8 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: "unit", include: ["tests/unit/**/*.test.ts", "tests/unit/**/*.test.tsx"], environment: "node" },
+        // Property tests run hundreds of cases; on a 2-core machine shared with a browser they can pass 5 s without being slow.
+        test: { name: "unit", include: ["tests/unit/**/*.test.ts", "tests/unit/**/*.test.tsx"], environment: "node", testTimeout: 20_000 },
       },
       {
         extends: true,

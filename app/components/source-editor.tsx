@@ -6,9 +6,11 @@
 import { markdown } from "@codemirror/lang-markdown";
 import { EditorView } from "@codemirror/view";
 import CodeMirror from "@uiw/react-codemirror";
-import { useCallback, useEffect, useMemo, useRef, useState, type RefObject } from "react";
-import { useFetcher } from "react-router";
+import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode, type RefObject } from "react";
+import { Form, Link, useFetcher } from "react-router";
 import type { SourceProblem } from "~/lib/mdx/types";
+import { HardwareCaution } from "./caution";
+import { FormError, Notice } from "./form-fields";
 
 const AUTOSAVE_DELAY_MS = 2_000;
 
@@ -84,6 +86,113 @@ export function SourceProblems({ problems }: { problems: SourceProblem[] }) {
           </li>
         ))}
       </ul>
+    </div>
+  );
+}
+
+export interface SourceEditorLayoutProps {
+  breadcrumb: ReactNode;
+  eyebrow: string;
+  title: string;
+  /** The autosave line from useAutosavedSource. */
+  status: string;
+  /** What a save makes: "revision" for sheets, "version" for documents. */
+  unit: "revision" | "version";
+  draft: { updatedAt: string; staleBase: boolean } | null;
+  conflict: string | null | undefined;
+  /** Where the newest saved revision or version is read. */
+  latestHref: string;
+  error: string | null | undefined;
+  source: string;
+  onChange: (next: string) => void;
+  editorLabel: string;
+  view: RefObject<EditorView | null>;
+  /** What the author inserts from: calculators for sheets, citable sheets for documents. */
+  palette: ReactNode;
+  problems: SourceProblem[];
+  save: { baseField: string; baseId: string | null; notePlaceholder: string; buttonLabel: string; saving: boolean };
+  /** Shown above the preview, e.g. a value that could not be written back. */
+  previewAlert?: ReactNode;
+  preview: ReactNode;
+}
+
+/** Source on the left, live preview on the right (stacked on a phone), with the draft, conflict and save around them. */
+export function SourceEditorLayout(props: SourceEditorLayoutProps) {
+  const { unit, save } = props;
+  return (
+    <div className="space-y-4">
+      <nav aria-label="Breadcrumb" className="text-sm text-ink-faint">
+        {props.breadcrumb}
+      </nav>
+      <header className="flex flex-col gap-2 sm:flex-row sm:items-end sm:justify-between">
+        <div>
+          <p className="eyebrow">{props.eyebrow}</p>
+          <h1 className="font-serif text-2xl font-semibold">{props.title}</h1>
+        </div>
+        <p className="text-xs text-ink-faint" role="status" aria-live="polite">
+          {props.status}
+        </p>
+      </header>
+
+      {props.draft ? (
+        <Notice tone="caution">
+          Restored your unsaved draft from {props.draft.updatedAt.slice(0, 16).replace("T", " ")} UTC.
+          {props.draft.staleBase ? ` Someone has saved a newer ${unit} since: compare before saving.` : ""}{" "}
+          <Form method="post" className="inline">
+            <input type="hidden" name="intent" value="discard-draft" />
+            <button type="submit" className="underline">
+              Discard the draft
+            </button>
+          </Form>
+        </Notice>
+      ) : null}
+      {props.conflict ? (
+        <div role="alert" className="rounded-md border border-[#e2b4b0] bg-danger-wash px-3 py-2 text-sm text-danger">
+          {props.conflict}{" "}
+          <Link to={props.latestHref} className="underline">
+            {`Open the latest ${unit}`}
+          </Link>
+        </div>
+      ) : null}
+      <FormError message={props.error ?? undefined} />
+
+      <div className="grid gap-4 lg:grid-cols-2">
+        <section aria-labelledby="source-heading" className="flex min-w-0 flex-col gap-3">
+          <div className="flex items-center justify-between">
+            <h2 id="source-heading" className="text-sm font-semibold">
+              Source
+            </h2>
+            <span className="text-xs text-ink-faint">{props.source.length.toLocaleString("en")} characters</span>
+          </div>
+          <SourceCodeEditor source={props.source} onChange={props.onChange} label={props.editorLabel} view={props.view} />
+          {props.palette}
+          <SourceProblems problems={props.problems} />
+          <Form method="post" className="panel flex flex-col gap-3 p-3 sm:flex-row sm:items-end">
+            <input type="hidden" name="intent" value="save" />
+            <input type="hidden" name="source" value={props.source} />
+            <input type="hidden" name={save.baseField} value={save.baseId ?? ""} />
+            <div className="flex-1">
+              <label htmlFor="save-note" className="field-label">
+                {`What changed (${unit} note)`}
+              </label>
+              <input id="save-note" name="note" className="field-input" placeholder={save.notePlaceholder} />
+            </div>
+            <button type="submit" className="btn btn-primary" disabled={save.saving}>
+              {save.saving ? "Saving…" : save.buttonLabel}
+            </button>
+          </Form>
+        </section>
+        <section aria-labelledby="preview-heading" className="min-w-0">
+          <h2 id="preview-heading" className="mb-3 text-sm font-semibold">
+            Live preview
+          </h2>
+          {props.previewAlert}
+          <div className="panel p-4 sm:p-6">{props.preview}</div>
+          <div className="mt-4">
+            <HardwareCaution compact />
+          </div>
+        </section>
+      </div>
     </div>
   );
 }

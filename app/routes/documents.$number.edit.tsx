@@ -1,13 +1,11 @@
 import type { EditorView } from "@codemirror/view";
 import { useDeferredValue, useMemo, useRef, useState } from "react";
-import { data, Form, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
+import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/documents.$number.edit";
-import { HardwareCaution } from "~/components/caution";
 import { ReferenceList } from "~/components/citations";
-import { FormError, Notice } from "~/components/form-fields";
 import { SheetView, type CitationTarget } from "~/components/sheet-view";
-import { insertAtCursor, SourceCodeEditor, SourceProblems, useAutosavedSource } from "~/components/source-editor";
+import { insertAtCursor, SourceEditorLayout, useAutosavedSource } from "~/components/source-editor";
 import { citationKey, citationStatus, type CitationView } from "~/lib/documents/citations";
 import { SOURCE_LIMITS, type SourceProblem } from "~/lib/mdx/types";
 import { parseDocumentNumber, parseSheetNumber, sheetNumberLabel } from "~/lib/sheets/numbering";
@@ -128,125 +126,75 @@ export default function DocumentEditor() {
   const saving = navigation.state !== "idle" && navigation.formData?.get("intent") === "save";
 
   return (
-    <div className="space-y-4">
-      <nav aria-label="Breadcrumb" className="text-sm text-ink-faint">
-        <Link to={`/projects/${loaded.document.projectCode}`}>{loaded.document.projectCode}</Link> <span aria-hidden="true">/</span>{" "}
-        <Link to={`/documents/${loaded.document.label}`}>{loaded.document.label}</Link> <span aria-hidden="true">/</span> editor
-      </nav>
-      <header className="flex flex-col gap-2 sm:flex-row sm:items-end sm:justify-between">
-        <div>
-          <p className="eyebrow">
-            {loaded.document.label} · {loaded.base ? `new version after ${loaded.base.sequence}` : "first version"}
-          </p>
-          <h1 className="font-serif text-2xl font-semibold">{loaded.document.title}</h1>
-        </div>
-        <p className="text-xs text-ink-faint" role="status" aria-live="polite">
-          {status}
-        </p>
-      </header>
-
-      {loaded.draft ? (
-        <Notice tone="caution">
-          Restored your unsaved draft from {loaded.draft.updatedAt.slice(0, 16).replace("T", " ")} UTC.
-          {loaded.draft.staleBase ? " Someone has saved a newer version since: compare before saving." : ""}{" "}
-          <Form method="post" className="inline">
-            <input type="hidden" name="intent" value="discard-draft" />
-            <button type="submit" className="underline">
-              Discard the draft
-            </button>
-          </Form>
-        </Notice>
-      ) : null}
-      {result?.conflict ? (
-        <div role="alert" className="rounded-md border border-[#e2b4b0] bg-danger-wash px-3 py-2 text-sm text-danger">
-          {result.conflict}{" "}
-          <Link to={`/documents/${loaded.document.label}`} className="underline">
-            Open the latest version
-          </Link>
-        </div>
-      ) : null}
-      <FormError message={result?.error ?? undefined} />
-
-      <div className="grid gap-4 lg:grid-cols-2">
-        <section aria-labelledby="source-heading" className="flex min-w-0 flex-col gap-3">
-          <div className="flex items-center justify-between">
-            <h2 id="source-heading" className="text-sm font-semibold">
-              Source
-            </h2>
-            <span className="text-xs text-ink-faint">{source.length.toLocaleString("en")} characters</span>
-          </div>
-          <SourceCodeEditor source={source} onChange={edit} label="Document source (MDX)" view={view} />
-          <details className="panel p-3" open>
-            <summary className="cursor-pointer text-sm font-semibold">Cite a calc sheet</summary>
-            <label htmlFor="cite-filter" className="field-label mt-2">
-              Find a sheet
-            </label>
-            <input id="cite-filter" className="field-input" value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="number, title or project" />
-            <ul className="mt-2 max-h-72 divide-y divide-rule overflow-y-auto text-sm">
-              {citable.map((s) => {
-                const verified = s.revisions.filter((r) => r.state === "verified").at(-1);
-                const latest = s.revisions.at(-1)!;
-                return (
-                  <li key={s.number} className="flex flex-col gap-1 py-2 sm:flex-row sm:items-center sm:gap-3">
-                    <span className="min-w-0 flex-1">
-                      <span className="font-mono">{s.number}</span> {s.title}
-                    </span>
-                    <span className="flex shrink-0 gap-2">
-                      {verified ? (
-                        <button type="button" className="btn btn-quiet" onClick={() => cite(s.number, verified.label)}>
-                          {`Cite rev ${verified.label} (verified)`}
-                          <span className="sr-only">{` of ${s.number}`}</span>
-                        </button>
-                      ) : null}
-                      {latest.id !== verified?.id ? (
-                        <button type="button" className="btn btn-quiet" onClick={() => cite(s.number, latest.label)}>
-                          {`Cite rev ${latest.label} (${latest.state})`}
-                          <span className="sr-only">{` of ${s.number}`}</span>
-                        </button>
-                      ) : null}
-                    </span>
-                  </li>
-                );
-              })}
-            </ul>
-            <p className="mt-2 text-xs text-ink-faint">Cite verified revisions where you can: anything else is listed as needing attention.</p>
-          </details>
-          <SourceProblems problems={problems} />
-          <Form method="post" className="panel flex flex-col gap-3 p-3 sm:flex-row sm:items-end">
-            <input type="hidden" name="intent" value="save" />
-            <input type="hidden" name="source" value={source} />
-            <input type="hidden" name="baseVersionId" value={loaded.base?.id ?? ""} />
-            <div className="flex-1">
-              <label htmlFor="version-note" className="field-label">
-                What changed (version note)
-              </label>
-              <input id="version-note" name="note" className="field-input" placeholder="e.g. added the filter section" />
-            </div>
-            <button type="submit" className="btn btn-primary" disabled={saving}>
-              {saving ? "Saving…" : loaded.base ? "Save as new version" : "Save version 1"}
-            </button>
-          </Form>
-        </section>
-        <section aria-labelledby="preview-heading" className="min-w-0">
-          <h2 id="preview-heading" className="mb-3 text-sm font-semibold">
-            Live preview
-          </h2>
-          <div className="panel p-4 sm:p-6">
-            {prepared.ok ? (
-              <>
-                <SheetView tree={prepared.tree} inputsById={{}} citations={preview.targets} />
-                <ReferenceList citations={preview.references} />
-              </>
-            ) : (
-              <p className="text-sm text-ink-soft">The preview returns when the problems in the source are fixed.</p>
-            )}
-          </div>
-          <div className="mt-4">
-            <HardwareCaution compact />
-          </div>
-        </section>
-      </div>
-    </div>
+    <SourceEditorLayout
+      breadcrumb={
+        <>
+          <Link to={`/projects/${loaded.document.projectCode}`}>{loaded.document.projectCode}</Link> <span aria-hidden="true">/</span>{" "}
+          <Link to={`/documents/${loaded.document.label}`}>{loaded.document.label}</Link> <span aria-hidden="true">/</span> editor
+        </>
+      }
+      eyebrow={`${loaded.document.label} · ${loaded.base ? `new version after ${loaded.base.sequence}` : "first version"}`}
+      title={loaded.document.title}
+      status={status}
+      unit="version"
+      draft={loaded.draft}
+      conflict={result?.conflict}
+      latestHref={`/documents/${loaded.document.label}`}
+      error={result?.error}
+      source={source}
+      onChange={edit}
+      editorLabel="Document source (MDX)"
+      view={view}
+      palette={
+        <details className="panel p-3" open>
+          <summary className="cursor-pointer text-sm font-semibold">Cite a calc sheet</summary>
+          <label htmlFor="cite-filter" className="field-label mt-2">
+            Find a sheet
+          </label>
+          <input id="cite-filter" className="field-input" value={filter} onChange={(e) => setFilter(e.target.value)} placeholder="number, title or project" />
+          <ul className="mt-2 max-h-72 divide-y divide-rule overflow-y-auto text-sm">
+            {citable.map((s) => {
+              const verified = s.revisions.filter((r) => r.state === "verified").at(-1);
+              const latest = s.revisions.at(-1)!;
+              return (
+                <li key={s.number} className="flex flex-col gap-1 py-2 sm:flex-row sm:items-center sm:gap-3">
+                  <span className="min-w-0 flex-1">
+                    <span className="font-mono">{s.number}</span> {s.title}
+                  </span>
+                  <span className="flex shrink-0 gap-2">
+                    {verified ? (
+                      <button type="button" className="btn btn-quiet" onClick={() => cite(s.number, verified.label)}>
+                        {`Cite rev ${verified.label} (verified)`}
+                        <span className="sr-only">{` of ${s.number}`}</span>
+                      </button>
+                    ) : null}
+                    {latest.id !== verified?.id ? (
+                      <button type="button" className="btn btn-quiet" onClick={() => cite(s.number, latest.label)}>
+                        {`Cite rev ${latest.label} (${latest.state})`}
+                        <span className="sr-only">{` of ${s.number}`}</span>
+                      </button>
+                    ) : null}
+                  </span>
+                </li>
+              );
+            })}
+          </ul>
+          <p className="mt-2 text-xs text-ink-faint">Cite verified revisions where you can: anything else is listed as needing attention.</p>
+        </details>
+      }
+      problems={problems}
+      save={{ baseField: "baseVersionId", baseId: loaded.base?.id ?? null, notePlaceholder: "e.g. added the filter section", buttonLabel: loaded.base ? "Save as new version" : "Save version 1", saving }}
+      preview={
+        prepared.ok ? (
+          <>
+            <SheetView tree={prepared.tree} inputsById={{}} citations={preview.targets} />
+            <ReferenceList citations={preview.references} />
+          </>
+        ) : (
+          <p className="text-sm text-ink-soft">The preview returns when the problems in the source are fixed.</p>
+        )
+      }
+    />
   );
 }
 

@@ -1,12 +1,10 @@
 import type { EditorView } from "@codemirror/view";
 import { useCallback, useDeferredValue, useMemo, useRef, useState } from "react";
-import { data, Form, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
+import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/sheets.$number.edit";
-import { HardwareCaution } from "~/components/caution";
-import { FormError, Notice } from "~/components/form-fields";
 import { SheetView } from "~/components/sheet-view";
-import { insertAtCursor, SourceCodeEditor, SourceProblems, useAutosavedSource } from "~/components/source-editor";
+import { insertAtCursor, SourceEditorLayout, useAutosavedSource } from "~/components/source-editor";
 import { blockSnippet, checkSheetSource, nextBlockId, setBlockInput } from "~/lib/mdx";
 import { SOURCE_LIMITS, type SourceProblem } from "~/lib/mdx/types";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
@@ -111,108 +109,60 @@ export default function SheetEditor() {
   const saving = navigation.state !== "idle" && navigation.formData?.get("intent") === "save";
 
   return (
-    <div className="space-y-4">
-      <nav aria-label="Breadcrumb" className="text-sm text-ink-faint">
-        <Link to="/sheets">Sheets</Link> <span aria-hidden="true">/</span> <Link to={`/sheets/${loaded.sheet.label}`}>{loaded.sheet.label}</Link>{" "}
-        <span aria-hidden="true">/</span> editor
-      </nav>
-      <header className="flex flex-col gap-2 sm:flex-row sm:items-end sm:justify-between">
-        <div>
-          <p className="eyebrow">
-            {loaded.sheet.label} · {loaded.base ? `new revision after ${loaded.base.label}` : "first revision"}
+    <SourceEditorLayout
+      breadcrumb={
+        <>
+          <Link to="/sheets">Sheets</Link> <span aria-hidden="true">/</span> <Link to={`/sheets/${loaded.sheet.label}`}>{loaded.sheet.label}</Link>{" "}
+          <span aria-hidden="true">/</span> editor
+        </>
+      }
+      eyebrow={`${loaded.sheet.label} · ${loaded.base ? `new revision after ${loaded.base.label}` : "first revision"}`}
+      title={loaded.sheet.title}
+      status={status}
+      unit="revision"
+      draft={loaded.draft}
+      conflict={result?.conflict}
+      latestHref={`/sheets/${loaded.sheet.label}`}
+      error={result?.error}
+      source={source}
+      onChange={edit}
+      editorLabel="Sheet source (MDX)"
+      view={view}
+      palette={
+        <details className="panel p-3" open>
+          <summary className="cursor-pointer text-sm font-semibold">Insert a calculator</summary>
+          <ul className="mt-2 grid gap-1 sm:grid-cols-2">
+            {loaded.palette.map((c) => (
+              <li key={c.id}>
+                <button type="button" className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper" onClick={() => insertBlock(c.id)} title={c.summary}>
+                  <span className="font-medium">{c.title}</span>
+                  <span className="block text-xs text-ink-faint">{c.summary}</span>
+                </button>
+              </li>
+            ))}
+          </ul>
+          <p className="mt-2 text-xs text-ink-faint">
+            Blocks are inserted at the cursor with every input at its default. <Link to="/calculators">What each calculator does</Link>
           </p>
-          <h1 className="font-serif text-2xl font-semibold">{loaded.sheet.title}</h1>
-        </div>
-        <p className="text-xs text-ink-faint" role="status" aria-live="polite">
-          {status}
-        </p>
-      </header>
-
-      {loaded.draft ? (
-        <Notice tone="caution">
-          Restored your unsaved draft from {loaded.draft.updatedAt.slice(0, 16).replace("T", " ")} UTC.
-          {loaded.draft.staleBase ? " Someone has saved a newer revision since: compare before saving." : ""}{" "}
-          <Form method="post" className="inline">
-            <input type="hidden" name="intent" value="discard-draft" />
-            <button type="submit" className="underline">
-              Discard the draft
-            </button>
-          </Form>
-        </Notice>
-      ) : null}
-      {result?.conflict ? (
-        <div role="alert" className="rounded-md border border-[#e2b4b0] bg-danger-wash px-3 py-2 text-sm text-danger">
-          {result.conflict}{" "}
-          <Link to={`/sheets/${loaded.sheet.label}`} className="underline">
-            Open the latest revision
-          </Link>
-        </div>
-      ) : null}
-      <FormError message={result?.error ?? undefined} />
-
-      <div className="grid gap-4 lg:grid-cols-2">
-        <section aria-labelledby="source-heading" className="flex min-w-0 flex-col gap-3">
-          <div className="flex items-center justify-between">
-            <h2 id="source-heading" className="text-sm font-semibold">
-              Source
-            </h2>
-            <span className="text-xs text-ink-faint">{source.length.toLocaleString("en")} characters</span>
+        </details>
+      }
+      problems={problems}
+      save={{ baseField: "baseRevisionId", baseId: loaded.base?.id ?? null, notePlaceholder: "e.g. raised fsw to 20 kHz; re-sized C", buttonLabel: loaded.base ? "Save as new revision" : "Save revision A", saving }}
+      previewAlert={
+        writeBackError ? (
+          <div role="alert" className="mb-3 rounded-md border border-[#e2b4b0] bg-danger-wash px-3 py-2 text-sm text-danger">
+            {writeBackError}
           </div>
-          <SourceCodeEditor source={source} onChange={edit} label="Sheet source (MDX)" view={view} />
-          <details className="panel p-3" open>
-            <summary className="cursor-pointer text-sm font-semibold">Insert a calculator</summary>
-            <ul className="mt-2 grid gap-1 sm:grid-cols-2">
-              {loaded.palette.map((c) => (
-                <li key={c.id}>
-                  <button type="button" className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper" onClick={() => insertBlock(c.id)} title={c.summary}>
-                    <span className="font-medium">{c.title}</span>
-                    <span className="block text-xs text-ink-faint">{c.summary}</span>
-                  </button>
-                </li>
-              ))}
-            </ul>
-            <p className="mt-2 text-xs text-ink-faint">
-              Blocks are inserted at the cursor with every input at its default. <Link to="/calculators">What each calculator does</Link>
-            </p>
-          </details>
-          <SourceProblems problems={problems} />
-          <Form method="post" className="panel flex flex-col gap-3 p-3 sm:flex-row sm:items-end">
-            <input type="hidden" name="intent" value="save" />
-            <input type="hidden" name="source" value={source} />
-            <input type="hidden" name="baseRevisionId" value={loaded.base?.id ?? ""} />
-            <div className="flex-1">
-              <label htmlFor="revision-note" className="field-label">
-                What changed (revision note)
-              </label>
-              <input id="revision-note" name="note" className="field-input" placeholder="e.g. raised fsw to 20 kHz; re-sized C" />
-            </div>
-            <button type="submit" className="btn btn-primary" disabled={saving}>
-              {saving ? "Saving…" : loaded.base ? "Save as new revision" : "Save revision A"}
-            </button>
-          </Form>
-        </section>
-        <section aria-labelledby="preview-heading" className="min-w-0">
-          <h2 id="preview-heading" className="mb-3 text-sm font-semibold">
-            Live preview
-          </h2>
-          {writeBackError ? (
-            <div role="alert" className="mb-3 rounded-md border border-[#e2b4b0] bg-danger-wash px-3 py-2 text-sm text-danger">
-              {writeBackError}
-            </div>
-          ) : null}
-          <div className="panel p-4 sm:p-6">
-            {prepared.ok ? (
-              <SheetView tree={prepared.tree} inputsById={Object.fromEntries(prepared.blocks.map((b) => [b.id, b.inputs]))} evaluation={prepared.evaluation} editable onInputChange={onInputChange} />
-            ) : (
-              <p className="text-sm text-ink-soft">The preview returns when the problems in the source are fixed.</p>
-            )}
-          </div>
-          <div className="mt-4">
-            <HardwareCaution compact />
-          </div>
-        </section>
-      </div>
-    </div>
+        ) : null
+      }
+      preview={
+        prepared.ok ? (
+          <SheetView tree={prepared.tree} inputsById={Object.fromEntries(prepared.blocks.map((b) => [b.id, b.inputs]))} evaluation={prepared.evaluation} editable onInputChange={onInputChange} />
+        ) : (
+          <p className="text-sm text-ink-soft">The preview returns when the problems in the source are fixed.</p>
+        )
+      }
+    />
   );
 }
 
