@@ -94,7 +94,7 @@ export default function Search() {
       <Form method="get" role="search" className="panel space-y-3 p-4">
         <div>
           <label htmlFor="search-box" className="field-label">
-            Search sheets <span className="font-normal text-ink-faint">— press / anywhere to come here</span>
+            Search sheets and documents <span className="font-normal text-ink-faint">— press / anywhere to come here</span>
           </label>
           <input
             ref={box}
