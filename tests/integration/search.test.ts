@@ -166,6 +166,14 @@ describe.each(engines)("search contract on %s", (_name, engineOf) => {
     expect(hits[0]!.snippet.map((s) => s.text).join("")).toContain("resonance");
   });
 
+  it("shows a value hit as its block with the values as typed, never the extra spellings it was found by", async () => {
+    const { hits } = await engineOf().search(larkA.teamId, "16khz");
+    expect(hits.map((h) => h.id)).toEqual([ids.groundPower!.id]);
+    const text = hits[0]!.snippet.map((s) => s.text).join("");
+    expect(text).toMatch(/^lc1 · .*\(lc-filter\): .*fsw 16 kHz/);
+    expect(text).not.toMatch(/16000 hz|\u001f/);
+  });
+
   it("never returns another team's sheets", async () => {
     for (const query of ["output filter pump inverter", "resonance damping", "fsw 20 kHz", "quasi-square 48 V", ""]) {
       const mine = await engineOf().search(larkA.teamId, query);
