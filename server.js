@@ -1,6 +1,7 @@
 // Production HTTP server: React Router's Express adapter with the pieces a
-// multi-server deployment needs — structured logs with a request id, the client
-// IP the rate limiter trusts, static assets, and a graceful shutdown.
+// multi-server deployment needs — validated settings, structured logs with a
+// request id, user and route, the client IP the rate limiter trusts, static
+// assets, and a graceful shutdown.
 import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
@@ -9,18 +10,40 @@ import path from "node:path";
 import pino from "pino";
 import { pinoHttp } from "pino-http";
 
-const logger = pino({
-  level: process.env.LOG_LEVEL ?? "info",
-  redact: { paths: ["req.headers.cookie", "req.headers.authorization", 'res.headers["set-cookie"]'], remove: true },
-});
-
 const build = await import(path.resolve("build/server/index.js"));
 const entry = build.entry.module;
-await entry.prepareServer();
 
+// Settings first: a bad one stops here with a message naming it (values are never printed).
+let settings;
+try {
+  settings = entry.serverConfig();
+} catch (error) {
+  if (error?.name !== "ConfigError") throw error;
+  process.stderr.write(`${error.message}\n`);
+  process.exit(1);
+}
+
+const logger = pino({
+  level: settings.LOG_LEVEL,
+  // Belt and braces: nothing below logs headers, but a future serializer must not leak these either.
+  redact: {
+    paths: ["req.headers.cookie", "req.headers.authorization", 'res.headers["set-cookie"]', "*.password", "*.token", "*.secret"],
+    censor: "[redacted]",
+  },
+});
+
+try {
+  await entry.prepareServer();
+} catch (error) {
+  // Typically the database: unreachable, wrong password, or missing. pg's messages never contain the password.
+  logger.fatal({ err: { message: error?.message, code: error?.code } }, "cannot start: preparing the database failed (check DATABASE_URL and that PostgreSQL is running)");
+  process.exit(1);
+}
+
+const routeOf = entry.createRouteMatcher(build.routes);
 const app = express();
 app.disable("x-powered-by");
-app.set("trust proxy", process.env.TRUST_PROXY ?? "loopback");
+app.set("trust proxy", settings.TRUST_PROXY);
 app.use(compression());
 app.use(
   pinoHttp({
@@ -31,13 +54,22 @@ app.use(
       return id;
     },
     customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? "error" : "info"),
+    // Who asked and which route answered, filled in while the request ran (see app/.server/request-log.ts).
+    customSuccessObject: (req, res, line) => ({ ...line, ...requestFacts(req) }),
+    customErrorObject: (req, res, error, line) => ({ ...line, ...requestFacts(req) }),
     serializers: {
-      req: (req) => ({ id: req.id, method: req.method, url: req.url?.split("?")[0] }),
+      req: (req) => ({ id: req.id, method: req.method, url: entry.redactUrl(req.url ?? "/") }),
       res: (res) => ({ statusCode: res.statusCode }),
     },
     autoLogging: { ignore: (req) => req.url?.startsWith("/assets/") ?? false },
   }),
 );
+
+function requestFacts(req) {
+  const context = req.logContext ?? {};
+  return { route: routeOf(new URL(req.originalUrl ?? req.url ?? "/", "http://x").pathname), userId: context.userId ?? null, via: context.via };
+}
+
 // The only client address the app trusts: from the socket, or from proxies named in TRUST_PROXY.
 app.use((req, _res, next) => {
   req.headers["x-sinewright-client-ip"] = req.ip ?? "";
@@ -46,12 +78,19 @@ app.use((req, _res, next) => {
 app.use("/assets", express.static("build/client/assets", { immutable: true, maxAge: "1y" }));
 app.use(express.static("build/client", { maxAge: "1h", index: false }));
 app.use(express.static("public", { maxAge: "1h", index: false }));
-app.all("*splat", createRequestHandler({ build, mode: process.env.NODE_ENV }));
+app.use((req, _res, next) => {
+  req.logContext = {};
+  entry.runWithRequestLog(req.logContext, next);
+});
+app.all("*splat", createRequestHandler({ build, mode: settings.NODE_ENV }));
 
-const port = Number(process.env.PORT ?? 3000);
-const host = process.env.HOST ?? "127.0.0.1";
+const { HOST: host, PORT: port } = settings;
 const server = app.listen(port, host, () => {
   logger.info({ url: `http://${host === "0.0.0.0" ? "localhost" : host}:${port}` }, "Sinewright is serving");
+});
+server.on("error", (error) => {
+  logger.fatal({ err: { message: error.message, code: error.code } }, `cannot listen on ${host}:${port} (check HOST and PORT)`);
+  process.exit(1);
 });
 
 let stopping = false;

@@ -11,6 +11,9 @@ export const streamTimeout = 5_000;
 
 /** Called by server.js before it listens: migrations and the outbox worker. */
 export { startBackgroundWork as prepareServer, stopBackgroundWork as stopServer };
+/** For server.js: the validated settings and what its request log lines say. */
+export { config as serverConfig, ConfigError } from "./.server/config";
+export { createRouteMatcher, redactUrl, runWithRequestLog } from "./.server/request-log";
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
   // One nonce per response: the framework's own inline scripts carry it; nothing else may run inline.

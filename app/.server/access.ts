@@ -4,6 +4,7 @@ import { auth } from "./auth";
 import { db } from "./db/client";
 import { apiKey, member, organization, user } from "./db/schema";
 import { hashApiKey } from "./api-keys";
+import { noteSignedIn } from "./request-log";
 import { isRole, roleAtLeast, type Role } from "./roles";
 
 export interface SignedInUser {
@@ -75,11 +76,15 @@ async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamI
 export async function getSignedIn(request: Request): Promise<{ user: SignedInUser; activeTeamId: string | null; via: Member["via"] } | null> {
   if (isApiRequest(request)) {
     const keyed = await fromApiKey(request);
-    if (keyed) return { user: keyed.user, activeTeamId: keyed.teamId, via: "api-key" };
+    if (keyed) {
+      noteSignedIn(keyed.user.id, "api-key");
+      return { user: keyed.user, activeTeamId: keyed.teamId, via: "api-key" };
+    }
   }
   const session = await auth().api.getSession({ headers: request.headers });
   if (!session) return null;
   const { id, name, email } = session.user;
+  noteSignedIn(id, "session");
   return { user: { id, name, email }, activeTeamId: session.session.activeOrganizationId ?? null, via: "session" };
 }
 
