@@ -6,6 +6,7 @@ import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express from "express";
 import { randomUUID } from "node:crypto";
+import { readdirSync } from "node:fs";
 import path from "node:path";
 import pino from "pino";
 import { pinoHttp } from "pino-http";
@@ -65,6 +66,15 @@ app.use(
   }),
 );
 
+function onlyFilesIn(folder, serve) {
+  const files = new Set(
+    readdirSync(folder, { recursive: true, withFileTypes: true })
+      .filter((entry) => entry.isFile())
+      .map((entry) => "/" + path.relative(folder, path.join(entry.parentPath, entry.name)).split(path.sep).join("/")),
+  );
+  return (req, res, next) => (files.has(req.path) ? serve(req, res, next) : next());
+}
+
 function requestFacts(req) {
   const context = req.logContext ?? {};
   return { route: routeOf(new URL(req.originalUrl ?? req.url ?? "/", "http://x").pathname), userId: context.userId ?? null, via: context.via };
@@ -76,8 +86,9 @@ app.use((req, _res, next) => {
   next();
 });
 app.use("/assets", express.static("build/client/assets", { immutable: true, maxAge: "1y" }));
-app.use(express.static("build/client", { maxAge: "1h", index: false }));
-app.use(express.static("public", { maxAge: "1h", index: false }));
+// The other static files are known at start; asking the file system on every page request costs throughput.
+app.use(onlyFilesIn("build/client", express.static("build/client", { maxAge: "1h", index: false })));
+app.use(onlyFilesIn("public", express.static("public", { maxAge: "1h", index: false })));
 app.use((req, _res, next) => {
   req.logContext = {};
   entry.runWithRequestLog(req.logContext, next);

@@ -56,24 +56,48 @@ export async function membershipsOf(userId: string): Promise<TeamMembership[]> {
   return rows.filter((r) => isRole(r.role)).map((r) => ({ ...r, role: r.role as Role }));
 }
 
+/** "Last used" is shown to the minute; refreshing it on every call would make every API read a write. */
+const LAST_USED_RESOLUTION_MS = 60_000;
+
 async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamId: string } | null> {
   const header = request.headers.get("authorization");
   if (!header?.toLowerCase().startsWith("bearer ")) return null;
   const secret = header.slice(7).trim();
   if (!secret) return null;
   const [row] = await db()
-    .select({ keyId: apiKey.id, teamId: apiKey.teamId, id: user.id, name: user.name, email: user.email })
+    .select({ keyId: apiKey.id, teamId: apiKey.teamId, lastUsedAt: apiKey.lastUsedAt, id: user.id, name: user.name, email: user.email })
     .from(apiKey)
     .innerJoin(user, eq(apiKey.userId, user.id))
     .where(and(eq(apiKey.secretHash, hashApiKey(secret)), isNull(apiKey.revokedAt)))
     .limit(1);
   if (!row) return null;
-  await db().update(apiKey).set({ lastUsedAt: new Date() }).where(eq(apiKey.id, row.keyId));
+  if (!row.lastUsedAt || Date.now() - row.lastUsedAt.getTime() > LAST_USED_RESOLUTION_MS) {
+    await db().update(apiKey).set({ lastUsedAt: new Date() }).where(eq(apiKey.id, row.keyId));
+  }
   return { user: { id: row.id, name: row.name, email: row.email }, teamId: row.teamId };
 }
 
+type SignedIn = { user: SignedInUser; activeTeamId: string | null; via: Member["via"] };
+
+/**
+ * The layout's loader and the page's loader both ask who is signing in; one lookup
+ * per request serves both. Keyed by the request object, so it lives exactly as long
+ * as the request.
+ */
+const signedInByRequest = new WeakMap<Request, Promise<SignedIn | null>>();
+
 /** The signed-in user and their session's active team, or null. Never throws for anonymous requests. */
-export async function getSignedIn(request: Request): Promise<{ user: SignedInUser; activeTeamId: string | null; via: Member["via"] } | null> {
+export function getSignedIn(request: Request): Promise<SignedIn | null> {
+  let lookup = signedInByRequest.get(request);
+  if (!lookup) {
+    lookup = lookUpSignedIn(request);
+    signedInByRequest.set(request, lookup);
+    lookup.catch(() => signedInByRequest.delete(request));
+  }
+  return lookup;
+}
+
+async function lookUpSignedIn(request: Request): Promise<SignedIn | null> {
   if (isApiRequest(request)) {
     const keyed = await fromApiKey(request);
     if (keyed) {

@@ -1,5 +1,4 @@
 import { AsyncLocalStorage } from "node:async_hooks";
-import { matchRoutes, type RouteObject } from "react-router";
 
 /**
  * What server.js's request log line says beyond method, URL and status: who asked
@@ -37,7 +36,9 @@ interface BuildRoute {
 /**
  * The route pattern a URL matched (e.g. `/sheets/:number`), from the server
  * build's route manifest, so logs group by route rather than by raw URL. Single-fetch
- * data requests (`/sheets/CS-0001.data`) count as their page.
+ * data requests (`/sheets/CS-0001.data`) count as their page. The manifest is
+ * flattened and ranked once, as React Router ranks it; a request then costs one
+ * `matchRoutes` over the prepared branches.
  */
 export function createRouteMatcher(manifest: Record<string, BuildRoute | undefined>): (pathname: string) => string {
   const children = new Map<string | undefined, BuildRoute[]>();
@@ -47,18 +48,39 @@ export function createRouteMatcher(manifest: Record<string, BuildRoute | undefin
     siblings.push(route);
     children.set(route.parentId, siblings);
   }
-  const tree = (parentId: string | undefined): RouteObject[] =>
-    (children.get(parentId) ?? []).map((route) =>
-      route.index ? { id: route.id, index: true, path: route.path } : { id: route.id, path: route.path, children: tree(route.id) },
-    );
-  const routes = tree(undefined);
+  // Leaf routes only, each with its full path: what a URL can end on.
+  const patterns: string[] = [];
+  const walk = (parentId: string | undefined, prefix: string) => {
+    for (const route of children.get(parentId) ?? []) {
+      const full = route.path ? `${prefix}/${route.path}` : prefix;
+      const kids = children.get(route.id);
+      if (kids?.length) walk(route.id, full);
+      if (route.index || route.path || !kids?.length) patterns.push(full.replace(/\/+/g, "/") || "/");
+    }
+  };
+  walk(undefined, "");
+  const compiled = [...new Set(patterns)].map((pattern) => ({ pattern, score: patternScore(pattern), regex: patternRegex(pattern) }));
+  compiled.sort((a, b) => b.score - a.score);
   return (pathname) => {
     const page = pathname === "/_root.data" ? "/" : pathname.replace(/\.data$/, "");
-    const matches = matchRoutes(routes, page);
-    if (!matches) return "unmatched";
-    const segments = matches.map((m) => m.route.path).filter((p): p is string => Boolean(p));
-    return `/${segments.join("/")}`.replace(/\/+/g, "/");
+    return compiled.find((c) => c.regex.test(page))?.pattern ?? "unmatched";
   };
+}
+
+/** React Router's ranking: static segments beat dynamic ones, a splat comes last. */
+function patternScore(pattern: string): number {
+  const segments = pattern.split("/").filter(Boolean);
+  let score = segments.length + (segments.includes("*") ? -2 : 0);
+  for (const segment of segments) score += segment === "*" ? 0 : segment.startsWith(":") ? 3 : 10;
+  return score;
+}
+
+function patternRegex(pattern: string): RegExp {
+  const segments = pattern.split("/").filter(Boolean);
+  const body = segments
+    .map((segment) => (segment === "*" ? "(?:/.*)?" : segment.startsWith(":") ? "/[^/]+" : `/${segment.replace(/[.+?^${}()|[\]\\]/g, "\\$&")}`))
+    .join("");
+  return new RegExp(`^${body}/?$`, "i");
 }
 
 const SECRET_QUERY = /token|password|secret|key|code|signature|session/i;

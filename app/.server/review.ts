@@ -1,6 +1,8 @@
 import { and, asc, desc, eq, inArray, isNull, ne, or, sql } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import { evaluateSheet } from "~/lib/calc/evaluate-sheet";
 import type { Results, ScalarResult } from "~/lib/calc/types";
+import { ENGINE_VERSION } from "~/lib/calc/version";
 import { revisionHash, type HashedBlock } from "~/lib/sheets/integrity";
 import { sheetNumberLabel } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
@@ -316,6 +318,28 @@ export interface IntegrityReport {
 
 const DRIFT_TOLERANCE = 1e-9;
 
+type EngineRerun = Pick<IntegrityReport, "engineVersion" | "drift">;
+
+/**
+ * The engine re-run of a revision depends only on its content (covered by the
+ * recomputed hash) and on the current engine, so it is remembered per process under
+ * both. The re-hash itself runs on every view — a changed row gives a new hash and a
+ * miss. Entries are always safe to drop; nothing else is kept between requests.
+ */
+const engineReruns = new LRUCache<string, EngineRerun>({ max: 2_000 });
+
+function rerunEngine(revision: { source: string; engineVersion: string }, rows: BlockRow[]): EngineRerun {
+  const prepared = prepareSheet(revision.source, "sheet");
+  const drift: IntegrityReport["drift"] = [];
+  if (!prepared.ok) return { engineVersion: revision.engineVersion, drift };
+  for (const row of rows) {
+    const now = prepared.evaluation.blocks[row.blockId];
+    const comparison = compareResults(row.ok ? (row.results as Results) : null, now?.ok ? now.results : null, DRIFT_TOLERANCE);
+    for (const c of comparison) if (!c.agrees) drift.push({ blockId: row.blockId, key: c.key, stored: c.author?.display ?? "—", now: c.checker?.display ?? "—" });
+  }
+  return { engineVersion: prepared.evaluation.engineVersion, drift };
+}
+
 /**
  * Re-hashes the stored content and re-runs the current engine on it. A hash that no
  * longer matches means the rows were changed behind the application's back.
@@ -330,18 +354,13 @@ export async function checkIntegrity(revision: { source: string; engineVersion: 
   const recomputedHash = await revisionHash({ source: revision.source, blocks, engineVersion: revision.engineVersion });
   const hashMatches = recomputedHash === revision.contentHash;
   const stampValid = stampHash === null ? null : hashMatches && stampHash === revision.contentHash;
-  const prepared = prepareSheet(revision.source, "sheet");
-  const drift: IntegrityReport["drift"] = [];
-  let engineVersion = revision.engineVersion;
-  if (prepared.ok) {
-    engineVersion = prepared.evaluation.engineVersion;
-    for (const row of rows) {
-      const now = prepared.evaluation.blocks[row.blockId];
-      const comparison = compareResults(row.ok ? (row.results as Results) : null, now?.ok ? now.results : null, DRIFT_TOLERANCE);
-      for (const c of comparison) if (!c.agrees) drift.push({ blockId: row.blockId, key: c.key, stored: c.author?.display ?? "—", now: c.checker?.display ?? "—" });
-    }
+  const memoKey = `${recomputedHash}|${ENGINE_VERSION}`;
+  let rerun = engineReruns.get(memoKey);
+  if (!rerun) {
+    rerun = rerunEngine(revision, rows);
+    engineReruns.set(memoKey, rerun);
   }
-  return { hashMatches, stampValid, recomputedHash, engineVersion, drift };
+  return { hashMatches, stampValid, recomputedHash, engineVersion: rerun.engineVersion, drift: rerun.drift };
 }
 
 /** Revisions waiting for this member's check. */
