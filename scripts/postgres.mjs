@@ -32,6 +32,18 @@ function findBinDir() {
   return versions[0] ? path.join(base, versions[0], "bin") : undefined;
 }
 
+/**
+ * A PostgreSQL client program (pg_dump, pg_restore, psql) of the installed Debian
+ * PostgreSQL whose major version matches the server's (`server_version_num`), so a
+ * dump is never made by an older pg_dump than the server.
+ */
+export function clientTool(name, serverVersionNum) {
+  const major = String(Math.floor(Number(serverVersionNum) / 10_000));
+  const candidate = path.join("/usr/lib/postgresql", major, "bin", name);
+  if (existsSync(candidate)) return candidate;
+  throw new Error(`${name} for PostgreSQL ${major} is not installed: apt-get install postgresql-client-${major}`);
+}
+
 function ensureServerInstalled() {
   let bin = findBinDir();
   if (bin) return ensureRum(bin);
