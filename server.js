@@ -8,7 +8,6 @@ import express from "express";
 import { randomUUID } from "node:crypto";
 import { readdirSync } from "node:fs";
 import path from "node:path";
-import pino from "pino";
 import { pinoHttp } from "pino-http";
 
 const build = await import(path.resolve("build/server/index.js"));
@@ -24,14 +23,7 @@ try {
   process.exit(1);
 }
 
-const logger = pino({
-  level: settings.LOG_LEVEL,
-  // Belt and braces: nothing below logs headers, but a future serializer must not leak these either.
-  redact: {
-    paths: ["req.headers.cookie", "req.headers.authorization", 'res.headers["set-cookie"]', "*.password", "*.token", "*.secret"],
-    censor: "[redacted]",
-  },
-});
+const logger = entry.logger();
 
 try {
   await entry.prepareServer();

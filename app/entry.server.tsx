@@ -3,7 +3,9 @@ import { randomBytes } from "node:crypto";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
 import { renderToPipeableStream } from "react-dom/server";
-import { ServerRouter, type EntryContext } from "react-router";
+import { ServerRouter, type EntryContext, type HandleErrorFunction } from "react-router";
+import { loggableError, logger } from "./.server/logger";
+import { redactUrl } from "./.server/request-log";
 import { applySecurityHeaders } from "./.server/security-headers";
 import { startBackgroundWork, stopBackgroundWork } from "./.server/lifecycle";
 
@@ -13,6 +15,7 @@ export const streamTimeout = 5_000;
 export { startBackgroundWork as prepareServer, stopBackgroundWork as stopServer };
 /** For server.js: the validated settings and what its request log lines say. */
 export { config as serverConfig, ConfigError } from "./.server/config";
+export { logger } from "./.server/logger";
 export { createRouteMatcher, redactUrl, runWithRequestLog } from "./.server/request-log";
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
@@ -38,7 +41,7 @@ export default function handleRequest(request: Request, responseStatusCode: numb
       },
       onError(error: unknown) {
         responseStatusCode = 500;
-        if (shellRendered) console.error(error);
+        if (shellRendered) logger().error({ err: loggableError(error), url: redactUrl(request.url) }, "rendering failed after the page started");
       },
     });
     setTimeout(abort, streamTimeout + 1000);
@@ -49,3 +52,9 @@ export function handleDataRequest(response: Response) {
   applySecurityHeaders(response.headers, { html: false });
   return response;
 }
+
+/** Unexpected errors in loaders and actions: one JSON log line, without query parameters or secrets. Aborted requests are not errors. */
+export const handleError: HandleErrorFunction = (error, { request }) => {
+  if (request.signal.aborted) return;
+  logger().error({ err: loggableError(error), url: redactUrl(request.url) }, "unexpected error while answering a request");
+};

@@ -5,6 +5,7 @@ import { createAccessControl } from "better-auth/plugins/access";
 import { adminAc, defaultStatements } from "better-auth/plugins/organization/access";
 import { config, trustedOrigins } from "./config";
 import { db } from "./db/client";
+import { loggableError, logger } from "./logger";
 import * as schema from "./db/schema";
 import { enqueueMail } from "./mail/outbox";
 
@@ -65,6 +66,14 @@ function createAuth() {
       defaultCookieAttributes: { sameSite: "lax", httpOnly: true },
     },
     telemetry: { enabled: false },
+    // better-auth's own messages go to our JSON log, errors without the query parameters they carry (session tokens).
+    logger: {
+      level: "warn",
+      log: (level, message, ...args) => {
+        const error = args.find((arg) => arg instanceof Error);
+        logger()[level]({ ...(error ? { err: loggableError(error) } : {}) }, `[auth] ${message}`);
+      },
+    },
     plugins: [
       organization({
         ac,

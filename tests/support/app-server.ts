@@ -91,3 +91,11 @@ export async function signUpThroughApi(url: string, email: string, password: str
     .map((line) => line.split(";")[0])
     .join("; ");
 }
+
+/** A new account that starts its own team (as its admin), through the server's pages; returns its cookie header. */
+export async function signUpWithTeamThroughApi(url: string, label: string): Promise<string> {
+  const cookie = await signUpThroughApi(url, `${label}-${Date.now().toString(36)}@example.org`, "pw-correct-horse-battery");
+  const response = await fetch(`${url}/teams/new`, { method: "POST", headers: { cookie, origin: url }, body: new URLSearchParams({ name: `Team ${label}` }), redirect: "manual" });
+  if (response.status !== 302) throw new Error(`creating a team answered ${response.status}`);
+  return cookie;
+}

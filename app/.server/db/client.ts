@@ -13,7 +13,10 @@ export function db(): Database {
   if (!database) {
     pool = new pg.Pool({ connectionString: config().DATABASE_URL, max: 10, idleTimeoutMillis: 30_000 });
     // A dropped connection (e.g. PostgreSQL restarting) must not crash the server; the pool reconnects.
+    // Idle clients report through the pool; a client checked out (between a transaction's statements)
+    // reports on itself, and its next query fails instead — the pool discards it on release.
     pool.on("error", () => {});
+    pool.on("connect", (client) => client.on("error", () => {}));
     database = drizzle(pool, { schema });
   }
   return database;
