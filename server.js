@@ -2,13 +2,17 @@
 // multi-server deployment needs — validated settings, structured logs with a
 // request id, user and route, the client IP the rate limiter trusts, static
 // assets, and a graceful shutdown.
-import { createRequestHandler } from "@react-router/express";
-import compression from "compression";
-import express from "express";
-import { randomUUID } from "node:crypto";
-import { readdirSync } from "node:fs";
-import path from "node:path";
-import { pinoHttp } from "pino-http";
+
+// React and the framework pick their production builds from NODE_ENV when first loaded, so it is
+// settled before anything imports them (the development builds are several times slower).
+process.env.NODE_ENV ??= "production";
+const { createRequestHandler } = await import("@react-router/express");
+const { default: compression } = await import("compression");
+const { default: express } = await import("express");
+const { randomUUID } = await import("node:crypto");
+const { readdirSync } = await import("node:fs");
+const { default: path } = await import("node:path");
+const { pinoHttp } = await import("pino-http");
 
 const build = await import(path.resolve("build/server/index.js"));
 const entry = build.entry.module;

@@ -41,7 +41,8 @@ export default function handleRequest(request: Request, responseStatusCode: numb
       },
       onError(error: unknown) {
         responseStatusCode = 500;
-        if (shellRendered) logger().error({ err: loggableError(error), url: redactUrl(request.url) }, "rendering failed after the page started");
+        // A client that went away mid-page (closed tab, a benchmark's last connections) is not a server error.
+        if (shellRendered && !request.signal.aborted) logger().error({ err: loggableError(error), url: redactUrl(request.url) }, "rendering failed after the page started");
       },
     });
     setTimeout(abort, streamTimeout + 1000);
