@@ -86,7 +86,7 @@ app.use("/assets", express.static("build/client/assets", { immutable: true, maxA
 app.use(onlyFilesIn("build/client", express.static("build/client", { maxAge: "1h", index: false })));
 app.use(onlyFilesIn("public", express.static("public", { maxAge: "1h", index: false })));
 app.use((req, _res, next) => {
-  req.logContext = {};
+  req.logContext = { requestId: req.id };
   entry.runWithRequestLog(req.logContext, next);
 });
 app.all("*splat", createRequestHandler({ build, mode: settings.NODE_ENV }));

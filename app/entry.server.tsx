@@ -5,7 +5,7 @@ import { isbot } from "isbot";
 import { renderToPipeableStream } from "react-dom/server";
 import { ServerRouter, type EntryContext, type HandleErrorFunction } from "react-router";
 import { loggableError, logger } from "./.server/logger";
-import { redactUrl } from "./.server/request-log";
+import { currentRequestLog, redactUrl } from "./.server/request-log";
 import { applySecurityHeaders } from "./.server/security-headers";
 import { startBackgroundWork, stopBackgroundWork } from "./.server/lifecycle";
 
@@ -57,5 +57,5 @@ export function handleDataRequest(response: Response) {
 /** Unexpected errors in loaders and actions: one JSON log line, without query parameters or secrets. Aborted requests are not errors. */
 export const handleError: HandleErrorFunction = (error, { request }) => {
   if (request.signal.aborted) return;
-  logger().error({ err: loggableError(error), url: redactUrl(request.url) }, "unexpected error while answering a request");
+  logger().error({ err: loggableError(error), url: redactUrl(request.url), reqId: currentRequestLog()?.requestId }, "unexpected error while answering a request");
 };

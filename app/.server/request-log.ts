@@ -6,6 +6,8 @@ import { AsyncLocalStorage } from "node:async_hooks";
  * AsyncLocalStorage store), so servers stay stateless.
  */
 export interface RequestLogContext {
+  /** The id server.js gave the request (also its X-Request-Id header), so error lines point at their request line. */
+  requestId?: string;
   userId?: string;
   via?: "session" | "api-key";
 }
@@ -15,6 +17,11 @@ const storage = new AsyncLocalStorage<RequestLogContext>();
 /** Runs one request's handling with a fresh log context that `noteSignedIn` fills in. */
 export function runWithRequestLog<T>(context: RequestLogContext, handle: () => T): T {
   return storage.run(context, handle);
+}
+
+/** The log context of the request being answered, if any. */
+export function currentRequestLog(): RequestLogContext | undefined {
+  return storage.getStore();
 }
 
 /** Called by the access check once it knows who is asking. */
