@@ -4,6 +4,9 @@
  * search API and the evaluate API (both with a personal API key). Prints requests/s,
  * p50, p99 and errors for each beside the targets. Prints figures; asserts nothing.
  *
+ * Beside them, the server's CPU time per request, read from /proc: the figure to compare
+ * before and after a change on a machine that other work shares.
+ *
  * Targets: the sheet page reaches at least half the health route's requests/s; every
  * route's p99 ≤ 100 ms; zero errors (connection errors, timeouts and non-2xx answers).
  *
@@ -16,7 +19,8 @@
 import autocannon from "autocannon";
 import { spawn, type ChildProcess } from "node:child_process";
 import { randomBytes, randomUUID } from "node:crypto";
-import { mkdirSync } from "node:fs";
+import { mkdirSync, readFileSync } from "node:fs";
+import { availableParallelism, loadavg } from "node:os";
 import path from "node:path";
 import pg from "pg";
 import { hashApiKey } from "../../app/.server/api-keys";
@@ -42,6 +46,8 @@ interface Target {
 
 interface Figures {
   name: string;
+  /** Server CPU time (user + system) per completed request: unlike requests/s, barely moved by other load on the machine. */
+  cpuMsPerRequest: number;
   requestsPerSecond: number;
   p50: number;
   p99: number;
@@ -127,7 +133,19 @@ try {
   if (!hadPostgres && !process.env.DATABASE_URL) stopPostgres();
 }
 
+/** CPU time the server process has used so far, in ms (Linux /proc; clock ticks are 1/100 s). */
+function serverCpuMs(): number {
+  if (!server?.pid) return NaN;
+  try {
+    const fields = readFileSync(`/proc/${server.pid}/stat`, "utf8").split(") ")[1]!.split(" ");
+    return (Number(fields[11]) + Number(fields[12])) * 10;
+  } catch {
+    return NaN;
+  }
+}
+
 async function run(appUrl: string, target: Target, seconds: number): Promise<Figures> {
+  const cpuBefore = serverCpuMs();
   const result = await autocannon({
     url: appUrl + target.path,
     method: target.method ?? "GET",
@@ -139,6 +157,7 @@ async function run(appUrl: string, target: Target, seconds: number): Promise<Fig
   });
   return {
     name: target.name,
+    cpuMsPerRequest: (serverCpuMs() - cpuBefore) / Math.max(1, result.requests.total),
     requestsPerSecond: result.requests.average,
     p50: result.latency.p50,
     p99: result.latency.p99,
@@ -151,8 +170,9 @@ function report(figures: Figures[]) {
   const health = figures[0]!;
   const sheet = figures[1]!;
   const row = (cells: string[]) => console.log(cells.map((c, i) => (i === 0 ? c.padEnd(28) : c.padStart(12))).join(" "));
-  row(["route", "requests/s", "p50 ms", "p99 ms", "errors", "requests"]);
-  for (const f of figures) row([f.name, f.requestsPerSecond.toFixed(0), String(f.p50), String(f.p99), String(f.errors), String(f.requests)]);
+  row(["route", "requests/s", "p50 ms", "p99 ms", "errors", "requests", "CPU ms/req"]);
+  for (const f of figures) row([f.name, f.requestsPerSecond.toFixed(0), String(f.p50), String(f.p99), String(f.errors), String(f.requests), f.cpuMsPerRequest.toFixed(1)]);
+  console.log(`\n(CPU ms/req: the server's own CPU time per completed request; the machine's load average was ${loadavg()[0]!.toFixed(1)} on ${availableParallelism()} cores)`);
   const mark = (ok: boolean) => (ok ? "met" : "NOT met");
   console.log("\ntargets:");
   console.log(`  sheet page ≥ half the health route's requests/s: ${sheet.requestsPerSecond.toFixed(0)} vs ${(health.requestsPerSecond / 2).toFixed(0)} — ${mark(sheet.requestsPerSecond >= health.requestsPerSecond / 2)}`);
