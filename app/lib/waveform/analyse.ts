@@ -2,8 +2,8 @@
  * Analyses each channel of a capture: RMS, DC offset, fundamental, harmonics and THD.
  *
  * 1. Sample rate from the time column: (samples − 1)/(last time − first time).
- * 2. Fundamental: the strongest line of an FFT of the whole record (zero-padded to a
- *    power of two), refined by maximising the Hann-windowed record's DTFT magnitude
+ * 2. Fundamental: the strongest line of an FFT of the whole record (block-averaged to
+ *    at most 2^16 points when longer, zero-padded to a power of two), refined by maximising the Hann-windowed record's DTFT magnitude
  *    within ±1 bin (golden-section search), so the frequency is not limited to the
  *    bin grid and other lines do not pull it.
  * 3. An integer number of cycles M (as many as the record holds) is resampled
@@ -120,9 +120,12 @@ export function analyseChannel(values: Float64Array, sampleRate: number, channel
     throw new CaptureError(`Channel "${channel}" is flat (every sample is ${min}${unit ? ` ${unit}` : ""}): there is no waveform to analyse.`);
   }
 
-  const coarse = coarseFundamental(values, mean, sampleRate);
-  const frequency = refineFundamental(values, mean, sampleRate, coarse.frequency, coarse.binWidth);
-  const cycles = Math.floor(recordSeconds * frequency + 1e-9);
+  const search = decimated(values, mean);
+  const searchRate = sampleRate / search.factor;
+  const coarse = coarseFundamental(search.samples, searchRate);
+  const frequency = refineFundamental(search.samples, searchRate, coarse.frequency, coarse.binWidth);
+  // A record of exactly M cycles must count as M, whatever the last digit of f says.
+  const cycles = Math.floor(recordSeconds * frequency + 1e-4);
   if (cycles < 1 || coarse.bin < 1) {
     const cycleMs = 1000 / frequency;
     throw new CaptureError(
@@ -199,14 +202,32 @@ export function analyseChannel(values: Float64Array, sampleRate: number, channel
   };
 }
 
-/** The strongest line of the zero-padded record's FFT, with its bin index and the bin width in Hz. */
-function coarseFundamental(values: Float64Array, mean: number, sampleRate: number) {
-  const count = values.length;
-  const size = Math.min(MAX_FFT_POINTS, nextPowerOfTwo(count));
-  const step = count > size ? count / size : 1;
+/** Samples the fundamental search looks at: block means of a long record (a boxcar low-pass). */
+const SEARCH_POINTS = 1 << 16;
+
+/**
+ * The record minus its mean, averaged in blocks of `factor` samples so that at most
+ * about SEARCH_POINTS remain. Averaging scales a line at f by sinc(πfD/fs), flat
+ * within 1e-6 near a fundamental far below the sample rate, so the peak stays put.
+ */
+function decimated(values: Float64Array, mean: number): { samples: Float64Array; factor: number } {
+  const factor = Math.max(1, Math.floor(values.length / SEARCH_POINTS));
+  if (factor === 1) return { samples: values.map((v) => v - mean), factor };
+  const samples = new Float64Array(Math.floor(values.length / factor));
+  for (let k = 0; k < samples.length; k++) {
+    let sum = 0;
+    for (let i = k * factor, end = i + factor; i < end; i++) sum += values[i]!;
+    samples[k] = sum / factor - mean;
+  }
+  return { samples, factor };
+}
+
+/** The strongest line of the zero-padded search record's FFT, with its bin index (in cycles per record) and bin width in Hz. */
+function coarseFundamental(search: Float64Array, sampleRate: number) {
+  const count = search.length;
+  const size = nextPowerOfTwo(count);
   const input = new Float64Array(size);
-  const used = Math.min(count, size);
-  for (let i = 0; i < used; i++) input[i] = values[Math.floor(i * step)]! - mean;
+  input.set(search);
   const fft = fftOf(size);
   const out = fft.createComplexArray() as number[];
   fft.realTransform(out, input);
@@ -219,10 +240,9 @@ function coarseFundamental(values: Float64Array, mean: number, sampleRate: numbe
       bestBin = k;
     }
   }
-  const effectiveRate = sampleRate / step;
-  const binWidth = effectiveRate / size;
-  // The record fills `used` of `size` points: a bin below size/used is less than one cycle.
-  return { frequency: bestBin * binWidth, binWidth, bin: (bestBin * used) / size };
+  const binWidth = sampleRate / size;
+  // The record fills `count` of `size` points: a bin below size/count is less than one cycle.
+  return { frequency: bestBin * binWidth, binWidth, bin: (bestBin * count) / size };
 }
 
 /**
@@ -231,7 +251,7 @@ function coarseFundamental(values: Float64Array, mean: number, sampleRate: numbe
  * peak, which matters when the record holds only a few cycles. Rotations replace
  * trigonometric calls per sample.
  */
-function dftMagnitude(values: Float64Array, mean: number, sampleRate: number, frequency: number): number {
+function dftMagnitude(values: Float64Array, sampleRate: number, frequency: number): number {
   const count = values.length;
   const angle = (2 * Math.PI * frequency) / sampleRate;
   const windowAngle = (2 * Math.PI) / count;
@@ -246,7 +266,7 @@ function dftMagnitude(values: Float64Array, mean: number, sampleRate: number, fr
   let re = 0;
   let im = 0;
   for (let i = 0; i < count; i++) {
-    const v = (values[i]! - mean) * (0.5 - 0.5 * wc);
+    const v = values[i]! * (0.5 - 0.5 * wc);
     re += v * c;
     im -= v * s;
     const next = c * stepCos - s * stepSin;
@@ -266,27 +286,27 @@ function dftMagnitude(values: Float64Array, mean: number, sampleRate: number, fr
   return Math.hypot(re, im);
 }
 
-function refineFundamental(values: Float64Array, mean: number, sampleRate: number, coarse: number, binWidth: number): number {
+function refineFundamental(values: Float64Array, sampleRate: number, coarse: number, binWidth: number): number {
   let low = Math.max(binWidth * 0.25, coarse - binWidth);
   let high = coarse + binWidth;
   const ratio = (Math.sqrt(5) - 1) / 2;
   let a = high - ratio * (high - low);
   let b = low + ratio * (high - low);
-  let fa = dftMagnitude(values, mean, sampleRate, a);
-  let fb = dftMagnitude(values, mean, sampleRate, b);
+  let fa = dftMagnitude(values, sampleRate, a);
+  let fb = dftMagnitude(values, sampleRate, b);
   for (let i = 0; i < 40 && high - low > 1e-9 * coarse; i++) {
     if (fa < fb) {
       low = a;
       a = b;
       fa = fb;
       b = low + ratio * (high - low);
-      fb = dftMagnitude(values, mean, sampleRate, b);
+      fb = dftMagnitude(values, sampleRate, b);
     } else {
       high = b;
       b = a;
       fb = fa;
       a = high - ratio * (high - low);
-      fa = dftMagnitude(values, mean, sampleRate, a);
+      fa = dftMagnitude(values, sampleRate, a);
     }
   }
   return (low + high) / 2;
