@@ -146,29 +146,25 @@ function MeasuredBody({ blockId, outcome, attachmentHref }: { blockId: string; o
           SHA-256 {attachment.sha256.slice(0, 12)}
         </span>
       </p>
-      <div className="mt-4 grid gap-x-8 gap-y-5 md:grid-cols-2">
-        <div className="min-w-0">
-          <h4 className="eyebrow m-0 mb-2">Measured</h4>
-          <dl className="m-0 text-sm">
-            {facts.map(([label, value]) => (
-              <div key={label} className="flex items-baseline justify-between gap-x-3 border-b border-rule/70 py-1.5 last:border-0">
-                <dt className="text-ink-soft">{label}</dt>
-                <dd className="m-0 font-mono tabular-nums">{value}</dd>
-              </div>
-            ))}
-          </dl>
-        </div>
-        <div className="min-w-0">
-          <h4 className="eyebrow m-0 mb-2">{comparison ? `Measured against ${comparison.block}` : "Comparison"}</h4>
-          {comparison ? (
-            <ComparisonTable blockId={blockId} rows={comparison.rows} calculatedBlock={comparison.block} />
-          ) : (
-            <p className="m-0 text-sm text-ink-faint">
-              Name a calculator block in <span className="font-mono">compare</span> to check the measurement against it.
-            </p>
-          )}
-        </div>
-      </div>
+      <h4 className="eyebrow m-0 mt-4 mb-2">Measured</h4>
+      <dl className="m-0 grid gap-x-8 text-sm md:grid-cols-2">
+        {facts.map(([label, value]) => (
+          <div key={label} className="flex items-baseline justify-between gap-x-3 border-b border-rule/70 py-1.5">
+            <dt className="text-ink-soft">{label}</dt>
+            <dd className="m-0 font-mono tabular-nums">{value}</dd>
+          </div>
+        ))}
+      </dl>
+      <h4 className="eyebrow m-0 mt-5 mb-2">
+        Measured against calculated{comparison ? <> (<span className="font-mono normal-case">{comparison.block}</span>)</> : null}
+      </h4>
+      {comparison ? (
+        <ComparisonTable blockId={blockId} rows={comparison.rows} calculatedBlock={comparison.block} />
+      ) : (
+        <p className="m-0 text-sm text-ink-faint">
+          Name a calculator block in <span className="font-mono">compare</span> to check the measurement against it.
+        </p>
+      )}
       {analysis.warnings.length > 0 ? (
         <ul className="mt-4 mb-0 list-none space-y-1 p-0 text-sm text-[#5e480a]" aria-label={`Notes on ${blockId}`}>
           {analysis.warnings.map((warning) => (
@@ -198,26 +194,26 @@ function ComparisonTable({ blockId, rows, calculatedBlock }: { blockId: string; 
         <thead className="text-xs text-ink-faint">
           <tr>
             <th scope="col" className="py-1.5 pr-3 text-left font-medium">Quantity</th>
+            <th scope="col" className="px-2 py-1.5 text-left font-medium">Verdict</th>
             <th scope="col" className="px-2 py-1.5 text-right font-medium">Measured</th>
             <th scope="col" className="px-2 py-1.5 text-right font-medium">Calculated</th>
             <th scope="col" className="px-2 py-1.5 text-right font-medium">Difference</th>
             <th scope="col" className="px-2 py-1.5 text-right font-medium">Tolerance</th>
-            <th scope="col" className="py-1.5 pl-2 text-left font-medium">Verdict</th>
           </tr>
         </thead>
         <tbody>
           {rows.map((row) => (
             <tr key={row.key} className="border-t border-rule/70">
               <th scope="row" className="py-1.5 pr-3 text-left font-normal text-ink-soft">{row.label}</th>
-              <td className="px-2 py-1.5 text-right font-mono">{Number.isFinite(row.measured) ? quantity(row.measured, row.unit) : "—"}</td>
-              <td className="px-2 py-1.5 text-right font-mono">{quantity(row.calculated, row.unit)}</td>
-              <td className="px-2 py-1.5 text-right font-mono">{Number.isFinite(row.difference) ? differenceText(row) : "—"}</td>
-              <td className="px-2 py-1.5 text-right font-mono">{toleranceText(row)}</td>
-              <td className={`py-1.5 pl-2 font-semibold ${row.pass ? "text-verified" : "text-danger"}`}>
+              <td className={`px-2 py-1.5 font-semibold ${row.pass ? "text-verified" : "text-danger"}`}>
                 <span className="inline-flex items-center gap-1">
                   {row.pass ? <PassMark /> : <OverMark />} {row.pass ? "within" : "outside"}
                 </span>
               </td>
+              <td className="px-2 py-1.5 text-right font-mono">{Number.isFinite(row.measured) ? quantity(row.measured, row.unit) : "—"}</td>
+              <td className="px-2 py-1.5 text-right font-mono">{quantity(row.calculated, row.unit)}</td>
+              <td className="px-2 py-1.5 text-right font-mono">{Number.isFinite(row.difference) ? differenceText(row) : "—"}</td>
+              <td className="px-2 py-1.5 text-right font-mono">{toleranceText(row)}</td>
             </tr>
           ))}
         </tbody>
