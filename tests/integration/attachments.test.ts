@@ -222,7 +222,7 @@ describe("measured-waveform blocks in saved revisions", () => {
     expect(api.integrity.hashMatches).toBe(true);
     expect(Object.keys(api.measurements)).toEqual(["m1"]);
     const page = await pageText(await visitor.get(`/sheets/${sheet}`));
-    expect(page).toContain("Measured against qs1");
+    expect(page).toContain(`aria-label="Comparison of m1 with qs1"`);
     expect(page).toContain("Matches qs1 within tolerance");
     expect(page).toContain("Probing lethal voltages.");
 
