@@ -187,13 +187,13 @@ function UploadProgress({ state }: { state: UploadState }) {
         <label htmlFor={`${uid}sent`} className="text-ink-soft">
           Sending: {Math.round(state.sentFraction * 100)} %
         </label>
-        <progress id={`${uid}sent`} className="block w-full" max={1} value={state.sentFraction} />
+        <progress id={`${uid}sent`} className="block w-full accent-[var(--color-copper)]" max={1} value={state.sentFraction} />
       </div>
       <div>
         <label htmlFor={`${uid}read`} className="text-ink-soft">
           {state.phase === "storing" ? "Storing…" : analysing ? "Analysing the capture…" : `Reading: ${state.rows.toLocaleString("en")} rows`}
         </label>
-        <progress id={`${uid}read`} className="block w-full" {...(analysing ? {} : { max: 1, value: state.sentFraction })} />
+        <progress id={`${uid}read`} className="block w-full accent-[var(--color-copper)]" {...(analysing ? {} : { max: 1, value: state.sentFraction })} />
       </div>
     </div>
   );
