@@ -25,6 +25,7 @@ export default [
     route("documents/:number", "routes/documents.$number.tsx", { id: "document" }),
     route("documents/:number/versions/:version", "routes/documents.$number.tsx", { id: "document-version" }),
     route("documents/:number/edit", "routes/documents.$number.edit.tsx"),
+    route("sheets/:number/attachments/:attachmentId", "routes/sheets.$number.attachments.$attachmentId.ts"),
     route("projects", "routes/projects.tsx"),
     route("projects/:code", "routes/projects.$code.tsx"),
     route("search", "routes/search.tsx"),
@@ -41,6 +42,7 @@ export default [
     route("search", "routes/api.v1.search.ts"),
     route("blocks", "routes/api.v1.blocks.ts"),
     route("sheets/:number/revisions/:rev", "routes/api.v1.sheets.$number.revisions.$rev.ts"),
+    route("sheets/:number/attachments", "routes/api.v1.sheets.$number.attachments.ts"),
   ]),
 
   route("api/*", "routes/api.not-found.ts", { id: "api-not-found" }),

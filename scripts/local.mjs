@@ -143,6 +143,17 @@ export async function startMailCatcher(smtpPort, httpPort) {
   return child;
 }
 
+/** The fake S3 service (scripts/fake-s3.mjs) on `port`, keeping its objects in `directory`. */
+export async function startFakeS3(port, directory, bucket) {
+  const child = spawn(process.execPath, [path.join(root, "scripts", "fake-s3.mjs")], {
+    cwd: root,
+    env: { ...process.env, FAKE_S3_PORT: String(port), FAKE_S3_DIR: directory, FAKE_S3_BUCKET: bucket },
+    stdio: "inherit",
+  });
+  await waitFor(() => portOpen(port), "the fake S3 service");
+  return child;
+}
+
 function newestMtime(dir) {
   let newest = 0;
   for (const entry of readdirSync(dir, { withFileTypes: true })) {

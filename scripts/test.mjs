@@ -4,8 +4,10 @@
 // tests (Debian's Chromium driven by playwright-core) against the built server.
 // Everything it starts, it stops; a fresh set of databases each run.
 import { execFileSync, spawn } from "node:child_process";
-import { existsSync } from "node:fs";
-import { dropDatabase, ensureBuild, ensureDatabase, ensureDependencies, freePort, localEnv, root, runNode, startMailCatcher, waitFor } from "./local.mjs";
+import { existsSync, mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { dropDatabase, ensureBuild, ensureDatabase, ensureDependencies, freePort, localEnv, root, runNode, startFakeS3, startMailCatcher, waitFor } from "./local.mjs";
 
 ensureDependencies();
 ensureChromium();
@@ -15,6 +17,7 @@ const wasRunning = !process.env.DATABASE_URL && postgres.status().running;
 const runTag = `${Date.now().toString(36)}_${process.pid}`;
 const children = [];
 const databases = [];
+const scratch = mkdtempSync(path.join(tmpdir(), "sinewright-test-"));
 let exitCode = 1;
 
 try {
@@ -28,6 +31,9 @@ try {
   const smtpPort = await freePort();
   const catcherPort = await freePort();
   children.push(await startMailCatcher(smtpPort, catcherPort));
+  // Attachments: the test server stores them through the S3 API, in a fake S3 service.
+  const s3Port = await freePort();
+  children.push(await startFakeS3(s3Port, path.join(scratch, "s3"), "sinewright-test"));
   const appPort = await freePort();
   const appUrl = `http://localhost:${appPort}`;
 
@@ -48,6 +54,13 @@ try {
     RATE_LIMITS: "off",
     LOG_LEVEL: process.env.LOG_LEVEL ?? "warn",
     SEED_DEMO: "1",
+    S3_ENDPOINT: `http://127.0.0.1:${s3Port}`,
+    S3_BUCKET: "sinewright-test",
+    S3_ACCESS_KEY_ID: "S3RVER",
+    S3_SECRET_ACCESS_KEY: "S3RVER",
+    S3_REGION: "us-east-1",
+    // Local-folder store for the contract suite's second implementation.
+    STORAGE_DIR: path.join(scratch, "local-store"),
   };
   await runNode(["scripts/migrate.ts"], { ...testEnv, DATABASE_URL: templateUrl }, "migrating the test template");
   await runNode(["scripts/migrate.ts"], { ...testEnv, DATABASE_URL: serverDbUrl }, "migrating the test server's database");
@@ -88,6 +101,7 @@ try {
   for (const child of children) child?.kill("SIGTERM");
   await new Promise((r) => setTimeout(r, 500));
   for (const url of databases) await dropDatabase(url).catch(() => {});
+  rmSync(scratch, { recursive: true, force: true });
   await dropLeftoverTestDatabases().catch(() => {});
   if (!wasRunning) postgres.stop();
 }

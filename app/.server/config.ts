@@ -42,6 +42,20 @@ const schema = z.object({
   MEILI_HOST: z.url(required("must be the Meilisearch URL, e.g. http://127.0.0.1:7700")).optional(),
   MEILI_KEY: z.string().optional(),
   MEILI_INDEX: z.string().regex(/^[A-Za-z0-9_-]+$/, "letters, digits, - and _ only").default("sinewright"),
+  /** S3-compatible object store for attachments; unset, files go to STORAGE_DIR. */
+  S3_ENDPOINT: z.url(required("must be the S3 endpoint URL, e.g. https://s3.eu-central-1.amazonaws.com or http://127.0.0.1:9000")).optional(),
+  S3_BUCKET: z.string().optional(),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  S3_REGION: z.string().default("us-east-1"),
+  STORAGE_DIR: z.string().default(".data/attachments"),
+  /** Largest attachment in MB (10^6 bytes). */
+  ATTACHMENT_MAX_MB: z.coerce.number(required("must be a number of MB, e.g. 50")).positive("must be more than 0").max(2000, "must be at most 2000").default(50),
+}).superRefine((cfg, ctx) => {
+  if (!cfg.S3_ENDPOINT) return;
+  for (const key of ["S3_BUCKET", "S3_ACCESS_KEY_ID", "S3_SECRET_ACCESS_KEY"] as const) {
+    if (!cfg[key]) ctx.addIssue({ code: "custom", path: [key], message: "must be set when S3_ENDPOINT is set" });
+  }
 });
 
 export type AppConfig = z.infer<typeof schema>;

@@ -3,7 +3,8 @@
  * MDX files it lists), read and checked before anything is written: the manifest's
  * shape, that every project, author and file it names exists, and that every
  * revision passes the same source check and engine run a save does, with every
- * block computing. Reads files only; seeding them is in seed.ts.
+ * block computing and every measured block reading its attached capture. Reads
+ * files only; seeding them is in seed.ts.
  */
 import { readFile } from "node:fs/promises";
 import path from "node:path";
@@ -11,6 +12,9 @@ import { z } from "zod";
 import { documentDetailsForm, projectForm, sheetDetailsForm } from "~/lib/forms/sheets";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
+import { analyseCapture } from "~/lib/waveform/analyse";
+import { readCapture } from "~/lib/waveform/capture-csv";
+import type { StoredCapture } from "~/lib/waveform/measurement";
 import type { DemoTeam } from "./seed";
 
 const revisionEntry = z.object({
@@ -34,6 +38,8 @@ const sheetEntry = z.object({
   tags: z.array(z.string().trim().toLowerCase().min(1).max(40)).max(12),
   /** E-mail of a demo member who may write sheets. */
   author: z.email(),
+  /** Files attached before the first revision, relative to content/, e.g. "captures/bench.csv". */
+  attachments: z.array(z.string().regex(/^captures\/[a-z0-9][a-z0-9-]*\.csv$/, "a CSV file under captures/")).default([]),
   revisions: z.array(revisionEntry).min(1),
 });
 
@@ -82,6 +88,8 @@ export interface DemoRevision {
 }
 
 export interface DemoSheet {
+  /** Paths of files to attach, relative to content/. */
+  attachments: string[];
   title: string;
   projectCode: string | null;
   tags: string[];
@@ -117,14 +125,18 @@ function zodProblems(error: z.ZodError, where: string): string[] {
 }
 
 /** Every problem a source would cause on save: refused MDX (with line and column) and blocks that do not compute. */
-export function sourceProblems(file: string, source: string): string[] {
-  const prepared = prepareSheet(source, "sheet");
+export function sourceProblems(file: string, source: string, captures: Record<string, StoredCapture> = {}): string[] {
+  const prepared = prepareSheet(source, "sheet", captures);
   if (!prepared.ok) return prepared.problems.map((p) => `${file}:${p.line}:${p.column}: ${p.message}`);
   const problems = prepared.evaluation.errors.map((e) => `${file}: ${e.field}: ${e.message}`);
   for (const block of prepared.blocks) {
     const outcome = prepared.evaluation.blocks[block.id];
     if (!outcome) problems.push(`${file}:${block.line}:${block.column}: block ${block.id} was not evaluated`);
     else if (!outcome.ok) for (const e of outcome.errors) problems.push(`${file}:${block.line}:${block.column}: block ${block.id}, ${e.field}: ${e.message}`);
+  }
+  for (const block of prepared.measurementBlocks) {
+    const outcome = prepared.measurements[block.id];
+    if (outcome && !outcome.ok) for (const e of outcome.errors) problems.push(`${file}:${block.line}:${block.column}: block ${block.id}, ${e.field}: ${e.message}`);
   }
   return problems;
 }
@@ -151,6 +163,17 @@ export async function loadDemoSheets(demo: DemoTeam, contentDir = path.resolve("
   const sheets: DemoSheet[] = [];
   for (const entry of manifest.sheets) {
     if (!writers.has(entry.author)) problems.push(`${manifestFile}: "${entry.title}": author ${entry.author} is not a demo member who may write sheets`);
+    // Captures are analysed here as an upload would, so measured blocks are checked before seeding.
+    const captures: Record<string, StoredCapture> = {};
+    for (const attachment of entry.attachments) {
+      try {
+        const analysis = analyseCapture(readCapture(await readFile(path.join(contentDir, attachment), "utf8")));
+        const fileName = path.basename(attachment);
+        captures[fileName] = { attachmentId: `demo-${fileName}`, fileName, sha256: "", analysis };
+      } catch (error) {
+        problems.push(`${manifestFile}: "${entry.title}": ${attachment}: ${error instanceof Error ? error.message : String(error)}`);
+      }
+    }
     const revisions: DemoRevision[] = [];
     for (const revision of entry.revisions) {
       let source: string;
@@ -160,14 +183,14 @@ export async function loadDemoSheets(demo: DemoTeam, contentDir = path.resolve("
         problems.push(`${manifestFile}: "${entry.title}": ${revision.file} does not exist`);
         continue;
       }
-      problems.push(...sourceProblems(revision.file, source));
+      problems.push(...sourceProblems(revision.file, source, captures));
       const checkerRole = demo.members.find((m) => m.email === revision.review?.checker)?.role;
       if (revision.review && (revision.review.checker === entry.author || (checkerRole !== "checker" && checkerRole !== "admin"))) {
         problems.push(`${manifestFile}: "${entry.title}": ${revision.review.checker} cannot check it (a checker or admin other than the author)`);
       }
       revisions.push({ file: revision.file, note: revision.note, source, review: revision.review });
     }
-    sheets.push({ title: entry.title, projectCode: entry.project?.toUpperCase() ?? null, tags: [...new Set(entry.tags)], author: entry.author, revisions });
+    sheets.push({ attachments: entry.attachments, title: entry.title, projectCode: entry.project?.toUpperCase() ?? null, tags: [...new Set(entry.tags)], author: entry.author, revisions });
   }
   const documents: DemoDocument[] = [];
   for (const entry of manifest.documents) {

@@ -344,14 +344,19 @@ function rerunEngine(revision: { source: string; engineVersion: string }, rows: 
  * Re-hashes the stored content and re-runs the current engine on it. A hash that no
  * longer matches means the rows were changed behind the application's back.
  */
-export async function checkIntegrity(revision: { source: string; engineVersion: string; contentHash: string }, rows: BlockRow[], stampHash: string | null): Promise<IntegrityReport> {
+export async function checkIntegrity(
+  revision: { source: string; engineVersion: string; contentHash: string; measurements?: unknown },
+  rows: BlockRow[],
+  stampHash: string | null,
+): Promise<IntegrityReport> {
   const blocks: HashedBlock[] = rows.map((r) => ({
     id: r.blockId,
     calculator: r.calculator,
     inputs: r.inputs as Record<string, string>,
     results: r.ok ? r.results : { errors: r.errors },
   }));
-  const recomputedHash = await revisionHash({ source: revision.source, blocks, engineVersion: revision.engineVersion });
+  const measurements = (revision.measurements ?? null) as Record<string, unknown> | null;
+  const recomputedHash = await revisionHash({ source: revision.source, blocks, engineVersion: revision.engineVersion, measurements });
   const hashMatches = recomputedHash === revision.contentHash;
   const stampValid = stampHash === null ? null : hashMatches && stampHash === revision.contentHash;
   const memoKey = `${recomputedHash}|${ENGINE_VERSION}`;

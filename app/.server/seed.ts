@@ -1,8 +1,10 @@
 import { eq } from "drizzle-orm";
+import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
 import path from "node:path";
 import { z } from "zod";
 import type { Member, TeamMembership } from "./access";
+import { uploadAttachment } from "./attachments";
 import { recordAudit } from "./audit";
 import { auth } from "./auth";
 import { db } from "./db/client";
@@ -97,6 +99,11 @@ The demo team and what came before were created, the rest was not: drop the data
       sheet = await createSheet(author, { title: entry.title, projectId, tags: entry.tags });
     } catch (error) {
       return stop(`sheet "${entry.title}"`, error instanceof Error ? error.message : String(error));
+    }
+    for (const file of entry.attachments) {
+      await uploadAttachment(author, { id: sheet.id, teamId: author.team.teamId }, { fileName: path.basename(file), body: createReadStream(path.resolve("content", file)) }).catch(
+        (error: unknown) => stop(file, error instanceof Error ? error.message : String(error)),
+      );
     }
     for (const revision of entry.revisions) {
       const saved = await saveRevision(author, sheet, { source: revision.source, baseRevisionId: sheet.latestRevisionId, note: revision.note }).catch((error: unknown) =>

@@ -1,7 +1,8 @@
 import { and, asc, desc, eq, inArray, sql, type SQL } from "drizzle-orm";
 import { sheetNumberLabel, revisionLabel } from "~/lib/sheets/numbering";
-import { hashedBlocks, hashPrepared, prepareSheet } from "~/lib/sheets/pipeline";
+import { hashedBlocks, hashPrepared, measuredAttachmentIds, prepareSheet } from "~/lib/sheets/pipeline";
 import type { SourceProblem } from "~/lib/mdx/types";
+import { capturesForSheet, linkRevisionAttachments } from "./attachments";
 import { recordAudit } from "./audit";
 import { db } from "./db/client";
 import { calcSheet, organization, project, revisionBlock, sheetDraft, sheetRevision, user } from "./db/schema";
@@ -208,7 +209,8 @@ export async function saveRevision(
   sheet: { id: string; latestRevisionId: string | null },
   input: { source: string; baseRevisionId: string | null; note: string },
 ): Promise<SaveOutcome> {
-  const prepared = prepareSheet(input.source, "sheet");
+  // Measured-waveform blocks read the sheet's stored capture analyses, never the samples.
+  const prepared = prepareSheet(input.source, "sheet", await capturesForSheet(sheet.id));
   // Refused sources are not stored anywhere; the author's text stays in their editor.
   if (!prepared.ok) return { ok: false, reason: "invalid", problems: prepared.problems };
   const contentHash = await hashPrepared(input.source, prepared);
@@ -244,8 +246,10 @@ export async function saveRevision(
         note: input.note,
         state: "draft",
         authorId: me.user.id,
+        measurements: Object.keys(prepared.measurements).length > 0 ? prepared.measurements : null,
       })
       .returning({ id: sheetRevision.id });
+    await linkRevisionAttachments(tx, revision!.id, sheet.id, measuredAttachmentIds(prepared));
     const rows = hashedBlocks(prepared).map((block, position) => {
       const outcome = prepared.evaluation.blocks[block.id];
       return {

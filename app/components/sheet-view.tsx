@@ -1,7 +1,8 @@
 /**
  * Renders a calc sheet's render tree (plain hast data from lib/mdx, never code):
  * prose and KaTeX as they are, each calculator element as a CalculatorBlock wired
- * to its typed inputs and its outcome, Caution as a callout, Cite as a reference.
+ * to its typed inputs and its outcome, MeasuredWaveform as its measured block,
+ * Caution as a callout, Cite as a reference.
  */
 import type { Root } from "hast";
 import { toJsxRuntime, type Components } from "hast-util-to-jsx-runtime";
@@ -10,7 +11,9 @@ import { Fragment, jsx, jsxs } from "react/jsx-runtime";
 import type { BlockOutcome, SheetEvaluation } from "~/lib/calc/evaluate-sheet";
 import { calculatorIds } from "~/lib/calc/registry";
 import { citationKey, type CitationState } from "~/lib/documents/citations";
+import { MEASUREMENT_COMPONENT, type MeasurementOutcome } from "~/lib/waveform/measurement";
 import { CalculatorBlock } from "./calc/calculator-block";
+import { MeasuredWaveformBlock } from "./calc/measured-waveform-block";
 import { CitationBadge } from "./citations";
 import { WarningMark } from "./calc/status-icons";
 
@@ -35,6 +38,10 @@ export interface SheetViewProps {
   onInputChange?: ((blockId: string, key: string, value: string) => void) | undefined;
   /** Citation targets keyed "CS-0001@B"; without them a citation is plain text. */
   citations?: Record<string, CitationTarget> | undefined;
+  /** Measured-waveform outcomes by block id. */
+  measurements?: Record<string, MeasurementOutcome> | undefined;
+  /** Download address of an attachment, for links from measured blocks. */
+  attachmentHref?: ((attachmentId: string) => string) | undefined;
 }
 
 /** The MDX component name of a calculator: "lc-filter" → "LcFilter". */
@@ -51,9 +58,19 @@ interface SheetData {
   editable: boolean;
   onInputChange: ((blockId: string, key: string, value: string) => void) | undefined;
   citations: Record<string, CitationTarget> | undefined;
+  measurements: Record<string, MeasurementOutcome>;
+  attachmentHref: ((attachmentId: string) => string) | undefined;
 }
 
-const SheetContext = createContext<SheetData>({ inputsById: {}, blocks: {}, editable: false, onInputChange: undefined, citations: undefined });
+const SheetContext = createContext<SheetData>({
+  inputsById: {},
+  blocks: {},
+  editable: false,
+  onInputChange: undefined,
+  citations: undefined,
+  measurements: {},
+  attachmentHref: undefined,
+});
 
 /** Inputs straight from the element's attributes, for a block the page did not list. */
 function inputsFromProps(props: Record<string, unknown>): Record<string, string> {
@@ -82,6 +99,12 @@ function blockComponent(calculatorId: string) {
   }
   SheetBlock.displayName = componentNameFor(calculatorId);
   return SheetBlock;
+}
+
+function SheetMeasurement(props: Record<string, unknown>) {
+  const sheet = useContext(SheetContext);
+  const blockId = typeof props.id === "string" ? props.id : "";
+  return <MeasuredWaveformBlock blockId={blockId} attributes={inputsFromProps(props)} outcome={sheet.measurements[blockId]} attachmentHref={sheet.attachmentHref} />;
 }
 
 function SheetCaution({ children }: { children?: ReactNode }) {
@@ -135,6 +158,7 @@ function SheetSpan(props: React.ComponentProps<"span">) {
 // Built once: a new component type per render would remount every block and drop the focus of the field being typed in.
 const SHEET_COMPONENTS: Record<string, unknown> = {
   ...Object.fromEntries(calculatorIds().map((id) => [componentNameFor(id), blockComponent(id)])),
+  [MEASUREMENT_COMPONENT]: SheetMeasurement,
   Caution: SheetCaution,
   Cite: SheetCite,
   span: SheetSpan,
@@ -152,10 +176,10 @@ const PROSE_EXTRAS = [
   "[&_.katex-display]:overflow-x-auto [&_.katex-display]:overflow-y-hidden [&_.katex-display]:py-1",
 ].join(" ");
 
-export function SheetView({ tree, inputsById, evaluation, editable = false, onInputChange, citations }: SheetViewProps) {
+export function SheetView({ tree, inputsById, evaluation, editable = false, onInputChange, citations, measurements, attachmentHref }: SheetViewProps) {
   const data = useMemo<SheetData>(
-    () => ({ inputsById, blocks: evaluation?.blocks ?? {}, editable, onInputChange, citations }),
-    [inputsById, evaluation, editable, onInputChange, citations],
+    () => ({ inputsById, blocks: evaluation?.blocks ?? {}, editable, onInputChange, citations, measurements: measurements ?? {}, attachmentHref }),
+    [inputsById, evaluation, editable, onInputChange, citations, measurements, attachmentHref],
   );
   const content = useMemo(
     () => toJsxRuntime(tree, { Fragment, jsx, jsxs, components: SHEET_COMPONENTS as Partial<Components>, ignoreInvalidStyle: true }),

@@ -114,6 +114,8 @@ export interface SourceEditorLayoutProps {
   /** Shown above the preview, e.g. a value that could not be written back. */
   previewAlert?: ReactNode;
   preview: ReactNode;
+  /** Below the source and the preview, e.g. the sheet's attachments. */
+  after?: ReactNode;
 }
 
 /** Source on the left, live preview on the right (stacked on a phone), with the draft, conflict and save around them. */
@@ -193,6 +195,7 @@ export function SourceEditorLayout(props: SourceEditorLayoutProps) {
           </div>
         </section>
       </div>
+      {props.after}
     </div>
   );
 }

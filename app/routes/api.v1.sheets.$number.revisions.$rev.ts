@@ -30,6 +30,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     stamp: review.stamp ? { checker: review.stamp.checkerName, at: review.stamp.createdAt.toISOString(), contentHash: review.stamp.contentHash, engineVersion: review.stamp.engineVersion } : null,
     url: new URL(`/sheets/${sheet.label}/revisions/${revision.label}`, request.url).pathname,
     blocks: rows.map((r) => ({ id: r.blockId, calculator: r.calculator, inputs: r.inputs, ok: r.ok, results: r.results, errors: r.errors, warnings: r.warnings })),
+    // Measured-waveform blocks: the capture (id, name, SHA-256), its analysis summary and the comparison, as hashed.
+    measurements: revision.measurements ?? {},
   });
 }
 

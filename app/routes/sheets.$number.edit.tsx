@@ -3,13 +3,16 @@ import { useCallback, useDeferredValue, useMemo, useRef, useState } from "react"
 import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/sheets.$number.edit";
+import { AttachmentsPanel } from "~/components/attachments-panel";
 import { SheetView } from "~/components/sheet-view";
 import { insertAtCursor, SourceEditorLayout, useAutosavedSource } from "~/components/source-editor";
 import { blockSnippet, checkSheetSource, nextBlockId, setBlockInput } from "~/lib/mdx";
+import { measurementSnippet } from "~/lib/mdx/components";
 import { SOURCE_LIMITS, type SourceProblem } from "~/lib/mdx/types";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
 import { requireMember } from "~/.server/access";
+import { attachmentLimitBytes, capturesForSheet, listAttachments } from "~/.server/attachments";
 import { discardDraft, getDraft, getRevisionById, getSheet, saveDraft, saveRevision, STARTER_SOURCE } from "~/.server/sheets";
 import { calculators } from "~/lib/calc/registry";
 
@@ -25,7 +28,12 @@ async function loadSheet(request: Request, numberText: string) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { me, sheet } = await loadSheet(request, params.number);
-  const [latest, draft] = await Promise.all([sheet.latestRevisionId ? getRevisionById(sheet.latestRevisionId) : undefined, getDraft(sheet.id, me.user.id)]);
+  const [latest, draft, attachments, captures] = await Promise.all([
+    sheet.latestRevisionId ? getRevisionById(sheet.latestRevisionId) : undefined,
+    getDraft(sheet.id, me.user.id),
+    listAttachments(sheet.id),
+    capturesForSheet(sheet.id),
+  ]);
   return {
     sheet: { label: sheet.label, title: sheet.title },
     base: latest ? { id: latest.id, label: latest.label } : null,
@@ -33,6 +41,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     draft: draft ? { updatedAt: draft.updatedAt.toISOString(), staleBase: (draft.baseRevisionId ?? null) !== (latest?.id ?? null) } : null,
     draftBaseId: draft ? draft.baseRevisionId : null,
     palette: calculators.map((c) => ({ id: c.id, title: c.title, summary: c.summary })),
+    attachments: attachments.map((a) => ({ ...a, url: `/sheets/${sheet.label}/attachments/${a.id}` })),
+    // Analyses only (no samples): the preview measures with the same numbers the save will.
+    captures,
+    attachmentLimit: attachmentLimitBytes(),
   };
 }
 
@@ -78,7 +90,7 @@ export default function SheetEditor() {
   const [writeBackError, setWriteBackError] = useState<string | null>(null);
   const view = useRef<EditorView | null>(null);
   const deferredSource = useDeferredValue(source);
-  const prepared = useMemo(() => prepareSheet(deferredSource, "sheet"), [deferredSource]);
+  const prepared = useMemo(() => prepareSheet(deferredSource, "sheet", loaded.captures), [deferredSource, loaded.captures]);
 
   const onInputChange = useCallback(
     (blockId: string, key: string, value: string) => {
@@ -102,6 +114,21 @@ export default function SheetEditor() {
   const insertBlock = (calculatorId: string) => {
     const existing = prepared.ok ? prepared.blocks.map((b) => b.id) : [];
     const snippet = `\n${blockSnippet(calculatorId, nextBlockId(calculatorId, existing))}\n`;
+    insertAtCursor(view.current, snippet, () => edit(source + snippet));
+  };
+
+  /** A measured block for a capture, compared with the first waveform calculator on the sheet. */
+  const insertMeasurement = (fileName: string) => {
+    const taken = prepared.ok ? [...prepared.blocks.map((b) => b.id), ...prepared.measurementBlocks.map((m) => m.id)] : [];
+    let n = 1;
+    while (taken.includes(`m${n}`)) n++;
+    const compare = prepared.ok
+      ? prepared.blocks.find((b) => {
+          const outcome = prepared.evaluation.blocks[b.id];
+          return outcome?.ok && Array.isArray(outcome.results.harmonics);
+        })?.id
+      : undefined;
+    const snippet = `\n${measurementSnippet(`m${n}`, fileName, compare)}\n`;
     insertAtCursor(view.current, snippet, () => edit(source + snippet));
   };
 
@@ -144,6 +171,21 @@ export default function SheetEditor() {
           <p className="mt-2 text-xs text-ink-faint">
             Blocks are inserted at the cursor with every input at its default. <Link to="/calculators">What each calculator does</Link>
           </p>
+          {Object.keys(loaded.captures).length > 0 ? (
+            <div className="mt-3 border-t border-rule pt-3">
+              <h3 className="m-0 text-sm font-semibold">Measure an attached capture</h3>
+              <ul className="mt-1 grid gap-1 p-0">
+                {Object.keys(loaded.captures).map((fileName) => (
+                  <li key={fileName} className="list-none">
+                    <button type="button" className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper" onClick={() => insertMeasurement(fileName)}>
+                      <span className="font-mono">{fileName}</span>
+                      <span className="block text-xs text-ink-faint">Measured waveform, compared with the first waveform calculator on the sheet</span>
+                    </button>
+                  </li>
+                ))}
+              </ul>
+            </div>
+          ) : null}
         </details>
       }
       problems={problems}
@@ -157,11 +199,20 @@ export default function SheetEditor() {
       }
       preview={
         prepared.ok ? (
-          <SheetView tree={prepared.tree} inputsById={Object.fromEntries(prepared.blocks.map((b) => [b.id, b.inputs]))} evaluation={prepared.evaluation} editable onInputChange={onInputChange} />
+          <SheetView
+            tree={prepared.tree}
+            inputsById={Object.fromEntries(prepared.blocks.map((b) => [b.id, b.inputs]))}
+            evaluation={prepared.evaluation}
+            editable
+            onInputChange={onInputChange}
+            measurements={prepared.measurements}
+            attachmentHref={(id) => `/sheets/${loaded.sheet.label}/attachments/${id}`}
+          />
         ) : (
           <p className="text-sm text-ink-soft">The preview returns when the problems in the source are fixed.</p>
         )
       }
+      after={<AttachmentsPanel sheetLabel={loaded.sheet.label} attachments={loaded.attachments} canUpload maxBytes={loaded.attachmentLimit} />}
     />
   );
 }

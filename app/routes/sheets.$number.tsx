@@ -2,6 +2,7 @@ import type { Element, Root } from "hast";
 import { data, Form, Link, redirect, useActionData, useLoaderData } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/sheets.$number";
+import { AttachmentsPanel } from "~/components/attachments-panel";
 import { HardwareCaution } from "~/components/caution";
 import { EmptyState } from "~/components/empty-state";
 import { FormError, Notice, SelectField } from "~/components/form-fields";
@@ -13,7 +14,9 @@ import { TitleBlock } from "~/components/title-block";
 import { VerificationStamp } from "~/components/verification-stamp";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { shortHash } from "~/lib/sheets/integrity";
+import type { MeasurementOutcome } from "~/lib/waveform/measurement";
 import { requireMember, type Member } from "~/.server/access";
+import { attachmentLimitBytes, listAttachments } from "~/.server/attachments";
 import { roleAtLeast } from "~/.server/roles";
 import { addComment, checkIntegrity, eligibleCheckers, recordCheckValues, resolveComment, returnRevision, ReviewRuleError, revisionReview, sheetAudit, stampRevision, submitForCheck } from "~/.server/review";
 import { storedEvaluation } from "~/.server/sheet-view";
@@ -83,9 +86,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           authorName: revision.authorName,
           createdAt: revision.createdAt.toISOString(),
           tree: revision.renderTree as Root,
+          measurements: (revision.measurements ?? {}) as Record<string, MeasurementOutcome>,
           isLatest,
         }
       : null,
+    attachments: (await listAttachments(sheet.id)).map((a) => ({ ...a, url: `/sheets/${sheet.label}/attachments/${a.id}` })),
+    attachmentLimit: attachmentLimitBytes(),
     stored,
     integrity,
     review: review
@@ -170,7 +176,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function SheetPage() {
-  const { teamName, me, canWrite, sheet, revision, stored, revisions, integrity, review, can, checkers, anchors, blocks, audit, lineage, citedIn, projects } = useLoaderData<typeof loader>();
+  const { teamName, me, canWrite, sheet, revision, stored, revisions, integrity, review, can, checkers, anchors, blocks, audit, lineage, citedIn, projects, attachments, attachmentLimit } = useLoaderData<typeof loader>();
   const result = useActionData<typeof action>();
   const projectLabel = sheet.projectCode ? `${sheet.projectCode} — ${sheet.projectName}` : "Team library";
   const stampValid = Boolean(review?.stamp && integrity?.stampValid);
@@ -302,7 +308,14 @@ export default function SheetPage() {
       <HardwareCaution compact />
       {revision && stored ? (
         <article aria-label={`Sheet ${sheet.label} revision ${revision.label}`} className="panel p-5 sm:p-8">
-          <SheetView tree={revision.tree as never} inputsById={stored.inputsById} evaluation={stored.evaluation} editable={false} />
+          <SheetView
+            tree={revision.tree as never}
+            inputsById={stored.inputsById}
+            evaluation={stored.evaluation}
+            editable={false}
+            measurements={revision.measurements}
+            attachmentHref={(id) => `/sheets/${sheet.label}/attachments/${id}`}
+          />
         </article>
       ) : (
         <EmptyState title="Nothing saved yet">This sheet has no saved revision. {canWrite ? "Open the editor to write it." : "Its author has not saved it yet."}</EmptyState>
@@ -322,6 +335,7 @@ export default function SheetPage() {
           blocks={blocks}
         />
       ) : null}
+      <AttachmentsPanel sheetLabel={sheet.label} attachments={attachments} canUpload={canWrite} maxBytes={attachmentLimit} />
       {revision && canWrite ? (
         <Form method="post" className="panel flex flex-col gap-3 p-4 sm:flex-row sm:items-end print:hidden">
           <input type="hidden" name="intent" value="reuse" />

@@ -50,6 +50,7 @@ async function runCurl(command: string): Promise<Response> {
       const [name, ...rest] = words[++i]!.split(":");
       headers.set(name!.trim(), rest.join(":").trim());
     } else if (word === "-d") body = words[++i];
+    else if (word === "--data-binary") body = readFileSync(new URL(`../../${words[++i]!.replace(/^@/, "")}`, import.meta.url), "utf8");
     else if (word === "-b") (useJar = true), i++;
     else if (word === "-c") (saveJar = true), i++;
     else if (word.startsWith("http")) url = word;

@@ -1,4 +1,4 @@
-import { boolean, customType, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
+import { bigint, boolean, customType, doublePrecision, index, integer, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { organization, user } from "./auth-schema";
 import { createdAt, id } from "./columns";
@@ -127,6 +127,8 @@ export const sheetRevision = pgTable(
     note: text("note").notNull().default(""),
     state: text("state").notNull().default("draft"),
     authorId: text("author_id").references(() => user.id, { onDelete: "set null" }),
+    /** Measured-waveform outcomes by block id (analysis summary and comparison; part of the hash); null when none. */
+    measurements: jsonb("measurements"),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("sheet_revision_sheet_sequence_idx").on(t.sheetId, t.sequence), index("sheet_revision_team_idx").on(t.teamId)],
@@ -406,4 +408,50 @@ export const searchDocument = pgTable(
     index("search_document_team_updated_idx").on(t.teamId, t.updatedAt),
     uniqueIndex("search_document_sheet_idx").on(t.sheetId),
   ],
+);
+
+/**
+ * A file attached to a sheet: datasheet (PDF), picture or scope capture (CSV). The
+ * bytes are in the object store under `storageKey`; a capture's analysis (summary,
+ * never the samples) is kept here. Attachments are never changed: a new upload is a
+ * new row, so a revision that measured one keeps pointing at the same bytes.
+ */
+export const attachment = pgTable(
+  "attachment",
+  {
+    id: id(),
+    teamId: text("team_id")
+      .notNull()
+      .references(() => organization.id, { onDelete: "cascade" }),
+    sheetId: text("sheet_id")
+      .notNull()
+      .references(() => calcSheet.id, { onDelete: "restrict" }),
+    uploaderId: text("uploader_id").references(() => user.id, { onDelete: "set null" }),
+    /** Safe name, unique on the sheet; measured blocks name the file by it. */
+    fileName: text("file_name").notNull(),
+    /** From the bytes, not the name: application/pdf, image/png, image/jpeg, image/gif, image/webp, text/csv. */
+    contentType: text("content_type").notNull(),
+    size: bigint("size", { mode: "number" }).notNull(),
+    sha256: text("sha256").notNull(),
+    storageKey: text("storage_key").notNull(),
+    /** CaptureAnalysis of a CSV capture; null for other files. */
+    analysis: jsonb("analysis"),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("attachment_sheet_file_name_idx").on(t.sheetId, t.fileName), index("attachment_team_idx").on(t.teamId)],
+);
+
+/** The attachments a revision measured, by id and hash: such an attachment cannot be deleted. */
+export const revisionAttachment = pgTable(
+  "revision_attachment",
+  {
+    revisionId: text("revision_id")
+      .notNull()
+      .references(() => sheetRevision.id, { onDelete: "restrict" }),
+    attachmentId: text("attachment_id")
+      .notNull()
+      .references(() => attachment.id, { onDelete: "restrict" }),
+    sha256: text("sha256").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.revisionId, t.attachmentId] }), index("revision_attachment_attachment_idx").on(t.attachmentId)],
 );

@@ -37,10 +37,10 @@ export interface CalculatorBlockProps {
   onInputChange?: ((blockId: string, key: string, value: string) => void) | undefined;
 }
 
-const BLOCK_FRAME = "my-6 overflow-hidden rounded-lg border border-rule-strong bg-sheet font-sans text-ink shadow-[0_1px_0_var(--color-rule)]";
-const BLOCK_HEAD = "flex flex-wrap items-center justify-between gap-x-3 gap-y-1 border-b border-rule border-l-4 border-l-copper bg-paper px-4 py-2";
+export const BLOCK_FRAME = "my-6 overflow-hidden rounded-lg border border-rule-strong bg-sheet font-sans text-ink shadow-[0_1px_0_var(--color-rule)]";
+export const BLOCK_HEAD = "flex flex-wrap items-center justify-between gap-x-3 gap-y-1 border-b border-rule border-l-4 border-l-copper bg-paper px-4 py-2";
 // Utilities (not the prose layer) so a block looks the same inside .prose-sheet and outside it.
-const BLOCK_TITLE = "m-0 text-sm font-semibold leading-snug";
+export const BLOCK_TITLE = "m-0 text-sm font-semibold leading-snug";
 
 /** Cautions most calculators share: the sheet shows them once in full, a block names them in one line. */
 const SHARED_CAUTIONS: ReadonlySet<string> = (() => {

@@ -23,6 +23,7 @@ import {
   SOURCE_BLOCK_ID_PATTERN,
   VOID_HTML_ELEMENTS,
 } from "./components";
+import { MEASUREMENT_ATTRIBUTE_NAMES, MEASUREMENT_COMPONENT } from "../waveform/measurement";
 import { checkSourceLength, prescanSource } from "./prescan";
 import { renderTree } from "./render";
 import {
@@ -32,6 +33,7 @@ import {
   type SourceBlock,
   type SourceCitation,
   type SourceKind,
+  type SourceMeasurement,
   type SourceProblem,
 } from "./types";
 import { urlProblem } from "./urls";
@@ -68,13 +70,14 @@ export function checkSheetSource(source: string, kind: SourceKind = "sheet"): Ch
     const problems = walk.problems.sort((a, b) => a.line - b.line || a.column - b.column).slice(0, MAX_PROBLEMS);
     return { ok: false, problems };
   }
-  return { ok: true, blocks: walk.blocks, citations: walk.citations, tree: renderTree(root) };
+  return { ok: true, blocks: walk.blocks, citations: walk.citations, measurements: walk.measurements, tree: renderTree(root) };
 }
 
 class SourceWalk {
   readonly problems: SourceProblem[] = [];
   readonly blocks: SourceBlock[] = [];
   readonly citations: SourceCitation[] = [];
+  readonly measurements: SourceMeasurement[] = [];
   private readonly blockLines = new Map<string, number>();
   private mathLength = 0;
   /** The parser drops a leading byte-order mark, so its offsets are one short of the source's. */
@@ -176,6 +179,13 @@ class SourceWalk {
         this.problem(node, `Calculations belong in calc sheets, where a checker verifies them. Put this ${name} in a sheet and cite its revision here: <Cite sheet="CS-0001" rev="A" />.`);
       } else if (attributesSound) this.checkBlock(node, name, calculatorId);
       this.refuseChildren(node, `A calculator block holds no text; write it as <${name} id="…" … />.`);
+      return false;
+    }
+    if (name === MEASUREMENT_COMPONENT) {
+      if (this.kind === "document") {
+        this.problem(node, `Measurements belong in calc sheets, beside the calculation they check. Put this ${name} in a sheet and cite its revision here.`);
+      } else if (attributesSound) this.checkMeasurement(node);
+      this.refuseChildren(node, `A measured-waveform block holds no text; write it as <${MEASUREMENT_COMPONENT} id="…" file="…" />.`);
       return false;
     }
     if (name === CAUTION_COMPONENT) {
@@ -290,6 +300,38 @@ class SourceWalk {
       end: this.offset(node.position?.end.offset),
       attributes,
     });
+  }
+
+  private checkMeasurement(node: JsxElement): void {
+    const attributes: Record<string, string> = {};
+    let id: string | undefined;
+    let sound = true;
+    for (const attribute of node.attributes) {
+      if (attribute.type !== "mdxJsxAttribute" || typeof attribute.value !== "string") continue;
+      if (attribute.name === "id") id = attribute.value;
+      else if ((MEASUREMENT_ATTRIBUTE_NAMES as string[]).includes(attribute.name)) attributes[attribute.name] = attribute.value;
+      else {
+        this.problem(attribute, `${MEASUREMENT_COMPONENT} has no attribute "${attribute.name}". It takes: id, ${MEASUREMENT_ATTRIBUTE_NAMES.join(", ")}.`);
+        sound = false;
+      }
+    }
+    if (id === undefined || !SOURCE_BLOCK_ID_PATTERN.test(id)) {
+      this.problem(node, `This block needs an id of a letter, then letters, digits or _ (at most 32), e.g. <${MEASUREMENT_COMPONENT} id="m1" … />.`);
+      return;
+    }
+    const firstLine = this.blockLines.get(id);
+    const { line, column } = this.place(node);
+    if (firstLine !== undefined) {
+      this.problem(node, `The id "${id}" is already used by the block on line ${firstLine}. Give this block another id.`);
+      return;
+    }
+    this.blockLines.set(id, line);
+    if (!sound) return;
+    if (this.blocks.length + this.measurements.length >= SOURCE_LIMITS.maxBlocks) {
+      this.problem(node, `A sheet may hold at most ${SOURCE_LIMITS.maxBlocks} blocks. Split it into several sheets.`);
+      return;
+    }
+    this.measurements.push({ id, attributes, line, column });
   }
 
   private checkCitation(node: JsxElement): void {

@@ -1,10 +1,12 @@
 /**
  * The names an author may write in a sheet: one component per calculator (its
  * registry id in PascalCase: quasi-square → QuasiSquare), `Caution` for safety
- * notes, `Cite` for citations in project documents, and a few plain HTML
+ * notes, `Cite` for citations in project documents, `MeasuredWaveform` for an
+ * attached scope capture measured against a calculator, and a few plain HTML
  * elements that carry no behaviour.
  */
 import { calculators, getCalculator } from "../calc/registry";
+import { MEASUREMENT_COMPONENT } from "../waveform/measurement";
 import type { SourceKind } from "./types";
 
 /** A block's id: a letter, then letters, digits or underscores, at most 32 characters. */
@@ -71,7 +73,7 @@ export function calculatorIdOf(componentName: string): string | undefined {
 /** Component names an author may use in a source of this kind, for messages and the help page. */
 export function allowedComponentNames(kind: SourceKind): string[] {
   if (kind === "document") return [CAUTION_COMPONENT, CITE_COMPONENT];
-  return [...CALCULATOR_COMPONENTS.map((entry) => entry.component), CAUTION_COMPONENT];
+  return [...CALCULATOR_COMPONENTS.map((entry) => entry.component), MEASUREMENT_COMPONENT, CAUTION_COMPONENT];
 }
 
 /**
@@ -141,4 +143,11 @@ export function blockSnippet(calculatorId: string, id: string): string {
   const oneLine = `<${component} ${attributes.join(" ")} />`;
   if (oneLine.length <= SNIPPET_LINE_LENGTH) return oneLine;
   return `<${component}\n${attributes.map((attribute) => `  ${attribute}\n`).join("")}/>`;
+}
+
+/** The MDX of a new measured-waveform block for a capture, linked to a calculator block when one is given. */
+export function measurementSnippet(id: string, fileName: string, compare?: string): string {
+  const attributes = [`id=${quoteAttributeValue(id)}`, `file=${quoteAttributeValue(fileName)}`];
+  if (compare) attributes.push(`compare=${quoteAttributeValue(compare)}`, `harmonics="3, 5, 7"`, `fundamentalTol="3 %"`, `thdTol="2 %"`, `harmonicTol="1.5 %"`);
+  return `<${MEASUREMENT_COMPONENT}\n${attributes.map((attribute) => `  ${attribute}\n`).join("")}/>`;
 }

@@ -59,8 +59,17 @@ export interface SourceCitation {
   revSpan: AttributeSpan;
 }
 
+/** A measured-waveform block: `<MeasuredWaveform id="m1" file="capture.csv" compare="qs1" />`. */
+export interface SourceMeasurement {
+  id: string;
+  /** Every attribute except `id`, as typed. */
+  attributes: Record<string, string>;
+  line: number;
+  column: number;
+}
+
 export type CheckedSource =
-  | { ok: true; blocks: SourceBlock[]; citations: SourceCitation[]; tree: HastRoot }
+  | { ok: true; blocks: SourceBlock[]; citations: SourceCitation[]; measurements: SourceMeasurement[]; tree: HastRoot }
   | { ok: false; problems: SourceProblem[] };
 
 /** What kind of document a source is: sheets hold calculators; documents hold citations (never calculators: those are checked in sheets). */

@@ -1,7 +1,9 @@
 /**
  * The content hash that binds a stamp to exactly what was checked. SHA-256 over a
  * canonical serialization (object keys sorted, no whitespace, undefined dropped)
- * of the source, every block's inputs and results, and the engine version.
+ * of the source, every block's inputs and results, the engine version and, when the
+ * sheet has measured-waveform blocks, their outcomes (each naming its attachment's
+ * SHA-256, so the stamp binds the exact bytes measured).
  * Uses Web Crypto, present in browsers and in Node.
  */
 export function canonicalJson(value: unknown): string {
@@ -32,10 +34,13 @@ export interface RevisionContent {
   source: string;
   blocks: HashedBlock[];
   engineVersion: string;
+  /** Measured-waveform outcomes by block id; absent or empty for sheets without them (their hashes stay as they were). */
+  measurements?: Record<string, unknown> | null | undefined;
 }
 
 export function revisionHash(content: RevisionContent): Promise<string> {
-  return sha256Hex(canonicalJson({ source: content.source, blocks: content.blocks, engineVersion: content.engineVersion }));
+  const measurements = content.measurements && Object.keys(content.measurements).length > 0 ? content.measurements : undefined;
+  return sha256Hex(canonicalJson({ source: content.source, blocks: content.blocks, engineVersion: content.engineVersion, measurements }));
 }
 
 /** The first characters of a hash, as printed on stamps and title blocks. */

@@ -30,7 +30,7 @@ const ATTACKS: Attack[] = [
   { name: "a javascript: Markdown link", source: "[x](javascript:alert(1))", line: 1, column: 1, message: /Links may point only to web addresses/, payload: "alert" },
   { name: "an expression attribute", source: '<QuasiSquare id="a" vdc={48} />', line: 1, column: 21, message: /value of vdc is in curly braces.*vdc="…"/, payload: "48" },
   { name: "a spread attribute", source: "<QuasiSquare {...props} />", line: 1, column: 14, message: /Spread attributes/, payload: "props" },
-  { name: "an unknown component", source: "# Hi\n\n<Unknown />", line: 3, column: 1, message: /no component <Unknown>\. A calc sheet can use: QuasiSquare, SteppedWave, .*Formula, Caution\./, payload: "zzz" },
+  { name: "an unknown component", source: "# Hi\n\n<Unknown />", line: 3, column: 1, message: /no component <Unknown>\. A calc sheet can use: QuasiSquare, SteppedWave, .*Formula, MeasuredWaveform, Caution\./, payload: "zzz" },
   { name: "a member name", source: "<QuasiSquare.Inner />", line: 1, column: 1, message: /names with "\." or ":" are not allowed/, payload: "Inner" },
   { name: "a namespaced name", source: "<svg:rect />", line: 1, column: 1, message: /names with "\." or ":" are not allowed/, payload: "rect" },
   { name: "a style attribute", source: 'Hi <sub style="position:fixed">x</sub>', line: 1, column: 9, message: /style attributes are not allowed/, payload: "fixed" },
