@@ -22,10 +22,11 @@ import {
   YAxis,
 } from "recharts";
 import { formatQuantity } from "~/lib/calc/format";
+import { CHART_COLUMNS, envelopePoints } from "~/lib/calc/envelope";
 import type { BodePoint, Harmonic, WaveformPoint } from "~/lib/calc/types";
 
 /** The drawing size in SVG units; app.css scales it down to the column (keep the two in step). */
-export const CHART_WIDTH = 640;
+export const CHART_WIDTH = CHART_COLUMNS;
 export const CHART_HEIGHT = 260;
 
 // Theme tokens from app.css; SVG presentation attributes accept var().
@@ -183,7 +184,7 @@ export function WaveformChart({ points, title = "Output voltage, one cycle" }: {
   const id = useChartId();
   const bound = niceBound(points.reduce((m, p) => Math.max(m, Math.abs(p.v)), 0));
   const levels = stepLevels(points);
-  const plotted = points.map((p) => ({ theta: steady(p.theta), v: steady(p.v) }));
+  const plotted = envelopePoints(points, CHART_WIDTH).map((p) => ({ theta: steady(p.theta), v: steady(p.v) }));
   const summary = levels
     ? `Angle 0–360° against voltage; the output steps between ${levels.map((v) => formatQuantity(v, "V")).join(", ")}.`
     : `Angle 0–360° against voltage; the output swings between ${formatQuantity(Math.min(...points.map((p) => p.v)), "V")} and ${formatQuantity(Math.max(...points.map((p) => p.v)), "V")}.`;
