@@ -1,7 +1,7 @@
 // Production HTTP server: React Router's Express adapter with the pieces a
 // multi-server deployment needs — validated settings, structured logs with a
-// request id, user and route, the client IP the rate limiter trusts, static
-// assets, and a graceful shutdown.
+// request id, user and route, the client IP the rate limiter trusts, security
+// headers on every response, static assets, and a graceful shutdown.
 
 // React and the framework pick their production builds from NODE_ENV when first loaded, so it is
 // settled before anything imports them (the development builds are several times slower).
@@ -9,6 +9,7 @@ process.env.NODE_ENV ??= "production";
 const { createRequestHandler } = await import("@react-router/express");
 const { default: compression } = await import("compression");
 const { default: express } = await import("express");
+const { default: onHeaders } = await import("on-headers");
 const { randomUUID } = await import("node:crypto");
 const { readdirSync } = await import("node:fs");
 const { default: path } = await import("node:path");
@@ -77,8 +78,16 @@ function requestFacts(req) {
 }
 
 // The only client address the app trusts: from the socket, or from proxies named in TRUST_PROXY.
-app.use((req, _res, next) => {
+// Security headers go on every response (static files, JSON, redirects, errors): whichever the
+// app did not set itself (pages carry their own CSP with a nonce) are added as the headers are sent.
+// req.secure is true over TLS, or behind a trusted proxy that says X-Forwarded-Proto: https.
+app.use((req, res, next) => {
   req.headers["x-sinewright-client-ip"] = req.ip ?? "";
+  onHeaders(res, () => {
+    for (const [name, value] of Object.entries(entry.securityHeaders({ html: false, secure: req.secure }))) {
+      if (!res.hasHeader(name)) res.setHeader(name, value);
+    }
+  });
   next();
 });
 app.use("/assets", express.static("build/client/assets", { immutable: true, maxAge: "1y" }));
@@ -90,6 +99,12 @@ app.use((req, _res, next) => {
   entry.runWithRequestLog(req.logContext, next);
 });
 app.all("*splat", createRequestHandler({ build, mode: settings.NODE_ENV }));
+// Whatever Express itself refuses (a malformed URL, a body it cannot read) still gets words and our headers, never a stack.
+app.use((error, req, res, _next) => {
+  const status = Number.isInteger(error?.status) && error.status >= 400 && error.status < 600 ? error.status : 500;
+  if (status >= 500) req.log.error({ err: error }, "request failed");
+  res.status(status).type("text/plain").send(status >= 500 ? "Something went wrong on our side. Try again in a moment." : "This request could not be read. Check the address and try again.");
+});
 
 const { HOST: host, PORT: port } = settings;
 const server = app.listen(port, host, () => {

@@ -6,22 +6,23 @@ import { renderToPipeableStream } from "react-dom/server";
 import { ServerRouter, type EntryContext, type HandleErrorFunction } from "react-router";
 import { loggableError, logger } from "./.server/logger";
 import { currentRequestLog, redactUrl } from "./.server/request-log";
-import { applySecurityHeaders } from "./.server/security-headers";
+import { applySecurityHeaders, isSecureRequest, securityHeaders } from "./.server/security-headers";
 import { startBackgroundWork, stopBackgroundWork } from "./.server/lifecycle";
 
 export const streamTimeout = 5_000;
 
 /** Called by server.js before it listens: migrations and the outbox worker. */
 export { startBackgroundWork as prepareServer, stopBackgroundWork as stopServer };
-/** For server.js: the validated settings and what its request log lines say. */
+/** For server.js: the validated settings, what its request log lines say, and every response's security headers. */
 export { config as serverConfig, ConfigError } from "./.server/config";
 export { logger } from "./.server/logger";
 export { createRouteMatcher, redactUrl, runWithRequestLog } from "./.server/request-log";
+export { securityHeaders };
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
   // One nonce per response: the framework's own inline scripts carry it; nothing else may run inline.
   const nonce = randomBytes(16).toString("base64");
-  applySecurityHeaders(responseHeaders, { nonce, html: true });
+  applySecurityHeaders(responseHeaders, { nonce, html: true, secure: isSecureRequest(request) });
   return new Promise((resolve, reject) => {
     let shellRendered = false;
     const userAgent = request.headers.get("user-agent");
@@ -49,8 +50,8 @@ export default function handleRequest(request: Request, responseStatusCode: numb
   });
 }
 
-export function handleDataRequest(response: Response) {
-  applySecurityHeaders(response.headers, { html: false });
+export function handleDataRequest(response: Response, { request }: { request: Request }) {
+  applySecurityHeaders(response.headers, { html: false, secure: isSecureRequest(request) });
   return response;
 }
 

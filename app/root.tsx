@@ -2,11 +2,13 @@ import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
 import { originGuard } from "./.server/origin-guard";
 import { startOutboxWorker } from "./.server/mail/outbox";
+import { enforceApiRateLimit } from "./.server/rate-limit";
 import "./app.css";
 
 export const middleware: Route.MiddlewareFunction[] = [
   async ({ request }, next) => {
     originGuard(request);
+    await enforceApiRateLimit(request);
     // In production server.js starts the worker; under `npm run dev` the first request does.
     startOutboxWorker();
     return next();

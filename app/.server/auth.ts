@@ -58,6 +58,7 @@ function createAuth() {
         "/sign-in/email": { window: 60, max: 10 },
         "/sign-up/email": { window: 60, max: 10 },
         "/request-password-reset": { window: 300, max: 5 },
+        "/reset-password": { window: 300, max: 10 },
       },
     },
     advanced: {
@@ -104,4 +105,31 @@ let instance: Auth | undefined;
 export function auth(): Auth {
   instance ??= createAuth();
   return instance;
+}
+
+/**
+ * better-auth answers its own rate limit with 429 and `X-Retry-After`; clients and
+ * proxies read the standard `Retry-After`, so every 429 from it carries both.
+ */
+export async function handleAuthRequest(request: Request): Promise<Response> {
+  const response = await auth().handler(request);
+  const retryAfter = response.headers.get("x-retry-after");
+  if (response.status !== 429 || !retryAfter) return response;
+  const headers = new Headers(response.headers);
+  headers.set("Retry-After", retryAfter);
+  return new Response(response.body, { status: 429, statusText: response.statusText, headers });
+}
+
+/**
+ * Sign-in, sign-up and password-reset forms call better-auth through its HTTP handler, not
+ * `auth().api`, because only the handler applies its per-client rate limits: the page and
+ * the JSON endpoint then share one counter per client address.
+ */
+export function callAuthEndpoint(request: Request, path: `/${string}`, body: Record<string, unknown>): Promise<Response> {
+  const headers = new Headers({ "content-type": "application/json", origin: new URL(config().APP_URL).origin });
+  for (const name of ["cookie", "user-agent", CLIENT_IP_HEADER]) {
+    const value = request.headers.get(name);
+    if (value) headers.set(name, value);
+  }
+  return handleAuthRequest(new Request(new URL(`/api/auth${path}`, config().APP_URL), { method: "POST", headers, body: JSON.stringify(body) }));
 }

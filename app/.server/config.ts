@@ -38,6 +38,14 @@ const schema = z.object({
   DEV_PAGES: z.enum(["0", "1"], required("0 or 1")).default("0"),
   /** "off" only for test and benchmark servers that sign in hundreds of times a minute from one address. */
   RATE_LIMITS: z.enum(["on", "off"], required("on or off")).default("on"),
+  /** API requests allowed per API key (or per client without one) in each window. */
+  API_RATE_LIMIT: z.coerce.number(required("must be a whole number of requests, e.g. 600")).int("must be a whole number of requests, e.g. 600").min(1, "must be at least 1").default(600),
+  API_RATE_WINDOW_SECONDS: z.coerce
+    .number(required("must be a whole number of seconds, e.g. 60"))
+    .int("must be a whole number of seconds, e.g. 60")
+    .min(1, "must be between 1 and 86400 seconds")
+    .max(86_400, "must be between 1 and 86400 seconds")
+    .default(60),
   /** Meilisearch for large teams; unset, search runs on PostgreSQL alone. */
   MEILI_HOST: z.url(required("must be the Meilisearch URL, e.g. http://127.0.0.1:7700")).optional(),
   MEILI_KEY: z.string().optional(),

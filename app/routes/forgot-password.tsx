@@ -3,21 +3,24 @@ import type { Route } from "./+types/forgot-password";
 import { AuthFrame } from "~/components/auth-frame";
 import { Notice, TextField } from "~/components/form-fields";
 import { fieldErrors, forgotPasswordForm, type FieldErrors } from "~/lib/forms/account";
-import { auth } from "~/.server/auth";
+import { callAuthEndpoint } from "~/.server/auth";
+import { actionRetryAfter, retryAfterHeaders } from "~/.server/auth-response";
 import { config } from "~/.server/config";
 
+export const headers = actionRetryAfter;
 export const meta: Route.MetaFunction = () => [{ title: "Reset your password · Sinewright" }];
 
 export async function action({ request }: Route.ActionArgs) {
   const form = Object.fromEntries(await request.formData());
   const parsed = forgotPasswordForm.safeParse(form);
   if (!parsed.success) return data({ sent: false, errors: fieldErrors(parsed.error) as FieldErrors }, { status: 400 });
-  const response = await auth().api.requestPasswordReset({
-    body: { email: parsed.data.email, redirectTo: new URL("/reset-password", config().APP_URL).toString() },
-    headers: request.headers,
-    asResponse: true,
+  const response = await callAuthEndpoint(request, "/request-password-reset", {
+    email: parsed.data.email,
+    redirectTo: new URL("/reset-password", config().APP_URL).toString(),
   });
-  if (response.status === 429) return data({ sent: false, errors: { form: "Too many requests. Wait a few minutes, then try again." } as FieldErrors }, { status: 429 });
+  if (response.status === 429) {
+    return data({ sent: false, errors: { form: "Too many requests. Wait a few minutes, then try again." } as FieldErrors }, { status: 429, headers: retryAfterHeaders(response) });
+  }
   // Same answer whether or not the address has an account: nobody learns who is registered.
   return { sent: true, errors: {} as FieldErrors };
 }

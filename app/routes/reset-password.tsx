@@ -3,19 +3,20 @@ import type { Route } from "./+types/reset-password";
 import { AuthFrame } from "~/components/auth-frame";
 import { FormError, TextField } from "~/components/form-fields";
 import { fieldErrors, resetPasswordForm, type FieldErrors } from "~/lib/forms/account";
-import { auth } from "~/.server/auth";
+import { callAuthEndpoint } from "~/.server/auth";
+import { actionRetryAfter, retryAfterHeaders } from "~/.server/auth-response";
 
+export const headers = actionRetryAfter;
 export const meta: Route.MetaFunction = () => [{ title: "Choose a new password · Sinewright" }];
 
 export async function action({ request }: Route.ActionArgs) {
   const form = Object.fromEntries(await request.formData());
   const parsed = resetPasswordForm.safeParse(form);
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors }, { status: 400 });
-  const response = await auth().api.resetPassword({
-    body: { token: parsed.data.token, newPassword: parsed.data.password },
-    headers: request.headers,
-    asResponse: true,
-  });
+  const response = await callAuthEndpoint(request, "/reset-password", { token: parsed.data.token, newPassword: parsed.data.password });
+  if (response.status === 429) {
+    return data({ errors: { form: "Too many attempts. Wait a few minutes, then try again." } as FieldErrors }, { status: 429, headers: retryAfterHeaders(response) });
+  }
   if (!response.ok) {
     return data({ errors: { form: "This reset link has expired or was already used. Ask for a new one." } as FieldErrors }, { status: 400 });
   }

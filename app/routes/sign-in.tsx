@@ -4,9 +4,10 @@ import { AuthFrame } from "~/components/auth-frame";
 import { FormError, Notice, TextField } from "~/components/form-fields";
 import { fieldErrors, safeNext, signInForm, type FieldErrors } from "~/lib/forms/account";
 import { getSignedIn } from "~/.server/access";
-import { auth } from "~/.server/auth";
-import { authErrorMessage, cookiesFrom } from "~/.server/auth-response";
+import { callAuthEndpoint } from "~/.server/auth";
+import { actionRetryAfter, authErrorMessage, cookiesFrom, retryAfterHeaders } from "~/.server/auth-response";
 
+export const headers = actionRetryAfter;
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Sinewright" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -19,13 +20,14 @@ export async function action({ request }: Route.ActionArgs) {
   const form = Object.fromEntries(await request.formData());
   const parsed = signInForm.safeParse(form);
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors, email: String(form.email ?? "") }, { status: 400 });
-  const response = await auth().api.signInEmail({ body: parsed.data, headers: request.headers, asResponse: true });
+  const response = await callAuthEndpoint(request, "/sign-in/email", parsed.data);
   if (!response.ok) {
     const message =
       response.status === 401 || response.status === 400
         ? "That e-mail and password do not match an account. Check both, or reset the password."
         : await authErrorMessage(response, "Sign-in failed. Try again.");
-    return data({ errors: { form: message } as FieldErrors, email: parsed.data.email }, { status: response.status === 429 ? 429 : 400 });
+    if (response.status === 429) return data({ errors: { form: message } as FieldErrors, email: parsed.data.email }, { status: 429, headers: retryAfterHeaders(response) });
+    return data({ errors: { form: message } as FieldErrors, email: parsed.data.email }, { status: 400 });
   }
   throw redirect(safeNext(form.next), { headers: cookiesFrom(response) });
 }

@@ -4,9 +4,10 @@ import { AuthFrame } from "~/components/auth-frame";
 import { FormError, TextField } from "~/components/form-fields";
 import { fieldErrors, safeNext, signUpForm, type FieldErrors } from "~/lib/forms/account";
 import { getSignedIn } from "~/.server/access";
-import { auth } from "~/.server/auth";
-import { authErrorMessage, cookiesFrom } from "~/.server/auth-response";
+import { callAuthEndpoint } from "~/.server/auth";
+import { actionRetryAfter, authErrorMessage, cookiesFrom, retryAfterHeaders } from "~/.server/auth-response";
 
+export const headers = actionRetryAfter;
 export const meta: Route.MetaFunction = () => [{ title: "Create an account · Sinewright" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -19,9 +20,10 @@ export async function action({ request }: Route.ActionArgs) {
   const parsed = signUpForm.safeParse(form);
   const echo = { name: String(form.name ?? ""), email: String(form.email ?? "") };
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors, ...echo }, { status: 400 });
-  const response = await auth().api.signUpEmail({ body: parsed.data, headers: request.headers, asResponse: true });
+  const response = await callAuthEndpoint(request, "/sign-up/email", parsed.data);
   if (!response.ok) {
     const message = await authErrorMessage(response, "The account could not be created.");
+    if (response.status === 429) return data({ errors: { form: message } as FieldErrors, ...echo }, { status: 429, headers: retryAfterHeaders(response) });
     const taken = /exist/i.test(message);
     return data(
       { errors: (taken ? { email: "An account with this e-mail already exists. Sign in instead, or reset its password." } : { form: message }) as FieldErrors, ...echo },

@@ -1,16 +1,8 @@
 import { describe, expect, it } from "vitest";
-import { signUpWithTeam, Visitor } from "../support/http";
+import { createApiKey, signUpWithTeam, Visitor } from "../support/http";
 import { expectClose } from "../support/tolerance";
 
 const evaluatePath = (id: string) => `/api/v1/calculators/${id}/evaluate`;
-
-async function createKey(visitor: Visitor, name: string): Promise<string> {
-  const response = await visitor.postForm("/settings", { intent: "create-key", name });
-  expect(response.status).toBe(200);
-  const match = (await response.text()).match(/(swk_[A-Za-z0-9_-]+)/);
-  if (!match) throw new Error("the new key was not shown");
-  return match[1]!;
-}
 
 describe("engine API", () => {
   it("answers anonymous callers 401 with JSON, on every endpoint", async () => {
@@ -107,7 +99,7 @@ describe("engine API", () => {
 
   it("accepts a personal API key as a Bearer token until it is revoked", async () => {
     const owner = await signUpWithTeam("keys");
-    const key = await createKey(owner.visitor, "bench script");
+    const key = await createApiKey(owner.visitor, "bench script");
     const withKey = await fetch(new URL("/api/v1/calculators", process.env.SINEWRIGHT_TEST_URL), { headers: { authorization: `Bearer ${key}` } });
     expect(withKey.status).toBe(200);
     const evaluate = await fetch(new URL(evaluatePath("dc-link"), process.env.SINEWRIGHT_TEST_URL), {

@@ -7,6 +7,9 @@ export const BASE_URL = process.env.SINEWRIGHT_TEST_URL ?? "http://localhost:300
 export class Visitor {
   private cookies = new Map<string, string>();
 
+  /** `baseUrl` is the shared test server unless a test started its own (tests/support/own-server.ts). */
+  constructor(readonly baseUrl = BASE_URL) {}
+
   cookieHeader(): string {
     return [...this.cookies].map(([k, v]) => `${k}=${v}`).join("; ");
   }
@@ -25,8 +28,8 @@ export class Visitor {
   async request(path: string, init: RequestInit = {}): Promise<Response> {
     const headers = new Headers(init.headers);
     if (this.cookies.size > 0) headers.set("cookie", this.cookieHeader());
-    if (init.method && init.method !== "GET" && !headers.has("origin")) headers.set("origin", new URL(BASE_URL).origin);
-    const response = await fetch(new URL(path, BASE_URL), { ...init, headers, redirect: "manual" });
+    if (init.method && init.method !== "GET" && !headers.has("origin")) headers.set("origin", new URL(this.baseUrl).origin);
+    const response = await fetch(new URL(path, this.baseUrl), { ...init, headers, redirect: "manual" });
     this.remember(response);
     return response;
   }
@@ -61,17 +64,17 @@ export function uniqueEmail(label: string): string {
 }
 
 /** Creates an account through the sign-up form and returns the signed-in visitor. */
-export async function signUp(label: string, password = "correct-horse-battery") {
+export async function signUp(label: string, password = "correct-horse-battery", baseUrl = BASE_URL) {
   const email = uniqueEmail(label);
-  const visitor = new Visitor();
+  const visitor = new Visitor(baseUrl);
   const response = await visitor.postForm("/sign-up", { name: `Test ${label}`, email, password, next: "" });
   if (response.status !== 302) throw new Error(`sign-up answered ${response.status}`);
   return { visitor, email, password };
 }
 
 /** Signs up and starts a team; the visitor is its admin. */
-export async function signUpWithTeam(label: string) {
-  const account = await signUp(label);
+export async function signUpWithTeam(label: string, baseUrl = BASE_URL) {
+  const account = await signUp(label, undefined, baseUrl);
   const response = await account.visitor.postForm("/teams/new", { name: `Team ${label}` });
   if (response.status !== 302) throw new Error(`creating a team answered ${response.status}`);
   return account;
@@ -95,4 +98,13 @@ export async function teamWithRoles(label: string, roles: string[]) {
     people[role] = { visitor: account.visitor, email: account.email, userId: row!.id };
   }
   return { teamId: team!.id, teamName: `Team ${label}`, people };
+}
+
+/** Makes a personal API key on the Settings page and returns its secret (shown once). */
+export async function createApiKey(visitor: Visitor, name: string): Promise<string> {
+  const response = await visitor.postForm("/settings", { intent: "create-key", name });
+  if (response.status !== 200) throw new Error(`creating an API key answered ${response.status}`);
+  const match = (await response.text()).match(/(swk_[A-Za-z0-9_-]+)/);
+  if (!match) throw new Error("the new key was not shown");
+  return match[1]!;
 }

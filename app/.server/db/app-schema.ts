@@ -455,3 +455,18 @@ export const revisionAttachment = pgTable(
   },
   (t) => [primaryKey({ columns: [t.revisionId, t.attachmentId] }), index("revision_attachment_attachment_idx").on(t.attachmentId)],
 );
+
+/**
+ * API request counters, one row per API key or client, shared by every app server.
+ * A fixed window: the row holds the current window's start and its count, both
+ * moved forward by one atomic upsert per request (`app/.server/rate-limit.ts`).
+ */
+export const apiRateLimit = pgTable(
+  "api_rate_limit",
+  {
+    key: text("key").primaryKey(),
+    windowStart: timestamp("window_start", { withTimezone: true }).notNull(),
+    count: integer("count").notNull(),
+  },
+  (t) => [index("api_rate_limit_window_idx").on(t.windowStart)],
+);
