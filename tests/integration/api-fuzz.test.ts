@@ -1,0 +1,95 @@
+import fc from "fast-check";
+import { beforeAll, describe, expect, it } from "vitest";
+import { ACCESS_MATRIX, entryUrl } from "../support/access-matrix";
+import { createApiKey, Visitor } from "../support/http";
+import { appRoutes } from "../support/route-config";
+
+/**
+ * Random JSON bodies, query strings and path values against every API route in
+ * app/routes.ts (better-auth's own /api/auth/* aside), with a personal API key and with
+ * a session: never a 5xx, always JSON, and every refusal a sentence saying what is wrong.
+ */
+const apiRoutes = appRoutes.filter((r) => r.pattern?.startsWith("/api/") && !r.pattern.startsWith("/api/auth/"));
+const RUNS = 50;
+
+/** Query keys the API reads, so random values reach the validation, plus random ones. */
+const knownKeys = ["q", "verified", "project", "calculator", "author", "from", "to", "field", "min", "max", "page", "sort", "limit"];
+const queryString = fc
+  .dictionary(fc.oneof(fc.constantFrom(...knownKeys), fc.string({ maxLength: 8 })), fc.oneof(fc.string({ maxLength: 40 }), fc.string({ unit: "grapheme", maxLength: 20 }), fc.double().map(String), fc.constantFrom("1 kHz", "-1e400 V", "=qs1.v1Rms", "NaN", "")), { maxKeys: 5 })
+  .map((fields) => new URLSearchParams(fields).toString());
+// "." and ".." are left out: the URL itself would then name another path.
+const pathValue = fc
+  .oneof(fc.string({ minLength: 1, maxLength: 30 }), fc.string({ unit: "grapheme", minLength: 1, maxLength: 10 }), fc.constantFrom("CS-0001", "CS-99999", "quasi-square", "A", "Z", "0", "%"))
+  .filter((value) => value !== "." && value !== "..");
+/** JSON in the shapes the API expects, with random leaves, and plain random JSON. */
+const leaf = fc.oneof(fc.string({ maxLength: 30 }), fc.double(), fc.integer(), fc.boolean(), fc.constant(null), fc.constantFrom("48 V", "23 deg", "=qs1.v1Rms", "1e308 V"));
+const jsonBody = fc.oneof(
+  fc.jsonValue({ maxDepth: 4 }),
+  fc.record({ inputs: fc.dictionary(fc.constantFrom("vdc", "alpha", "l", "c", "fsw", "vout", "m"), leaf) }, { requiredKeys: [] }),
+  fc.record({ blocks: fc.array(fc.record({ id: fc.oneof(fc.string({ maxLength: 6 }), leaf), calculator: fc.oneof(fc.constantFrom("quasi-square", "lc-filter", "spwm", "nope"), leaf), inputs: fc.dictionary(fc.string({ maxLength: 6 }), leaf) }, { requiredKeys: [] }), { maxLength: 4 }) }, { requiredKeys: [] }),
+);
+
+function withPathValues(pattern: string, values: string[]): string {
+  let i = 0;
+  return pattern.replace(/:[A-Za-z]+|\*/g, () => encodeURIComponent(values[i++] ?? "x"));
+}
+
+async function expectClearAnswer(response: Response, what: string) {
+  expect(response.status, what).toBeLessThan(500);
+  expect(response.headers.get("content-type") ?? "", what).toContain("application/json");
+  const body = await response.json();
+  if (response.status >= 400) {
+    expect(typeof body.error, `${what}: ${JSON.stringify(body)}`).toBe("string");
+    expect(body.error.length, what).toBeGreaterThan(10);
+  }
+}
+
+describe("API fuzzing", () => {
+  const callers: { name: string; visitor: Visitor; headers: Record<string, string> }[] = [];
+  beforeAll(async () => {
+    const engineer = await new Visitor().signIn("engineer@example.com");
+    const key = await createApiKey(engineer, "fuzzing");
+    callers.push({ name: "session", visitor: engineer, headers: {} }, { name: "API key", visitor: new Visitor(), headers: { authorization: `Bearer ${key}` } });
+  });
+
+  it("covers every API route in the route config", () => {
+    expect(apiRoutes.map((r) => r.id)).toEqual(expect.arrayContaining(["routes/api.v1.evaluate", "routes/api.v1.search", "api-not-found"]));
+  });
+
+  for (const route of apiRoutes) {
+    const url = entryUrl(ACCESS_MATRIX[route.id]!, { invitationId: "none" });
+    const path = url.split("?")[0]!;
+
+    it(`${route.id}: random JSON bodies`, async () => {
+      await fc.assert(
+        fc.asyncProperty(fc.constantFrom(...callers), jsonBody, async (caller, body) => {
+          const response = await caller.visitor.postJson(path, body, caller.headers);
+          await expectClearAnswer(response, `${caller.name} POST ${path} ${JSON.stringify(body)}`);
+        }),
+        { numRuns: RUNS },
+      );
+    });
+
+    it(`${route.id}: random bodies that are not JSON at all`, async () => {
+      await fc.assert(
+        fc.asyncProperty(fc.constantFrom(...callers), fc.string({ maxLength: 60 }), fc.constantFrom("application/json", "text/plain", "application/x-www-form-urlencoded"), async (caller, text, type) => {
+          const response = await caller.visitor.request(path, { method: "POST", body: text, headers: { ...caller.headers, "content-type": type } });
+          await expectClearAnswer(response, `${caller.name} POST ${path} (${type}) ${JSON.stringify(text)}`);
+        }),
+        { numRuns: RUNS },
+      );
+    });
+
+    it(`${route.id}: random query strings and path values`, async () => {
+      const params = (route.pattern!.match(/:[A-Za-z]+|\*/g) ?? []).length;
+      await fc.assert(
+        fc.asyncProperty(fc.constantFrom(...callers), queryString, fc.array(pathValue, { minLength: params, maxLength: params }), async (caller, query, values) => {
+          const target = `${params > 0 ? withPathValues(route.pattern!, values) : path}?${query}`;
+          const response = await caller.visitor.get(target, caller.headers);
+          await expectClearAnswer(response, `${caller.name} GET ${target}`);
+        }),
+        { numRuns: RUNS },
+      );
+    });
+  }
+});
