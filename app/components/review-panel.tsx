@@ -1,4 +1,5 @@
 import { Form, useNavigation } from "react-router";
+import { ScrollRegion } from "./scroll-region";
 import { StatusBadge } from "./status-badge";
 
 export interface ReviewComment {
@@ -171,7 +172,7 @@ export function ReviewPanel(props: ReviewPanelProps) {
                 <p className="mt-1 text-xs text-ink-faint">
                   inputs {Object.entries(check.inputs).map(([k, v]) => `${k}=${v}`).join(", ")}
                 </p>
-                <div className="mt-1 overflow-x-auto">
+                <ScrollRegion label={`Re-run of ${check.blockId} compared`} className="mt-1">
                   <table className="w-full min-w-[24rem] text-xs">
                     <thead className="text-ink-faint">
                       <tr>
@@ -194,7 +195,7 @@ export function ReviewPanel(props: ReviewPanelProps) {
                       ))}
                     </tbody>
                   </table>
-                </div>
+                </ScrollRegion>
               </li>
             ))}
           </ul>

@@ -3,6 +3,7 @@ import { useLoaderData } from "react-router";
 import type { Route } from "./+types/calculators";
 import { HardwareCaution } from "~/components/caution";
 import { PageHeader } from "~/components/empty-state";
+import { ScrollRegion } from "~/components/scroll-region";
 import { catalogue } from "~/lib/calc/registry";
 import type { InputSpec } from "~/lib/calc/types";
 import { describeRange } from "~/lib/calc/units";
@@ -90,10 +91,12 @@ export default function Calculators() {
               Write it as <code className="font-mono">&lt;{c.component} /&gt;</code> with an <code>id</code> and any inputs as quoted strings; the editor's palette
               inserts it with the defaults below.
             </p>
-            <pre className="mt-2 overflow-x-auto rounded-md border border-rule bg-paper p-3 font-mono text-xs">{c.snippet}</pre>
+            <ScrollRegion label={`Component for ${c.title}`} className="mt-2 rounded-md border border-rule bg-paper">
+              <pre className="p-3 font-mono text-xs">{c.snippet}</pre>
+            </ScrollRegion>
 
             <h3 className="mt-6 font-semibold">Inputs</h3>
-            <div className="mt-2 overflow-x-auto">
+            <ScrollRegion label={`Inputs of ${c.title}`} className="mt-2">
               <table className="w-full min-w-[36rem] text-left text-sm">
                 <thead className="text-ink-faint">
                   <tr className="border-b border-rule">
@@ -123,7 +126,7 @@ export default function Calculators() {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollRegion>
 
             <h3 className="mt-6 font-semibold">Outputs</h3>
             <ul className="mt-2 grid gap-x-6 gap-y-1 text-sm sm:grid-cols-2">
@@ -142,7 +145,11 @@ export default function Calculators() {
                   {c.formulas.map((f) => (
                     <div key={f.label} className="grid gap-1 sm:grid-cols-[14rem_1fr] sm:items-center">
                       <dt className="text-sm text-ink-soft">{f.label}</dt>
-                      <dd className="overflow-x-auto" dangerouslySetInnerHTML={{ __html: f.html }} />
+                      <dd className="min-w-0">
+                        <ScrollRegion label={f.label}>
+                          <div dangerouslySetInnerHTML={{ __html: f.html }} />
+                        </ScrollRegion>
+                      </dd>
                     </div>
                   ))}
                 </dl>

@@ -1,3 +1,5 @@
+export const meta = () => [{ title: "Nothing here · Sinewright" }];
+
 export function loader() {
   throw new Response(null, { status: 404, statusText: "Not Found" });
 }
@@ -5,3 +7,5 @@ export function loader() {
 export default function NotFound() {
   return null;
 }
+
+export { RouteErrorBoundary as ErrorBoundary } from "~/components/route-error";

@@ -1,6 +1,7 @@
 import { Link, useLoaderData } from "react-router";
 import type { Route } from "./+types/sheets.$number.diff";
 import { PageHeader } from "~/components/empty-state";
+import { ScrollRegion } from "~/components/scroll-region";
 import { diffRevisions, type DiffBlock } from "~/lib/sheets/diff";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
@@ -55,7 +56,7 @@ export default function SheetDiff() {
               {c.blockId} <span className="font-sans text-ink-faint">· {c.calculator} · {KIND_WORDS[c.kind]}</span>
             </h2>
             {c.inputs.length + c.results.length > 0 ? (
-              <div className="mt-2 overflow-x-auto">
+              <ScrollRegion label={`Changes in block ${c.blockId}`} className="mt-2">
                 <table className="w-full min-w-[28rem] text-left text-sm">
                   <thead className="text-ink-faint">
                     <tr className="border-b border-rule">
@@ -85,7 +86,7 @@ export default function SheetDiff() {
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </ScrollRegion>
             ) : null}
           </li>
         ))}

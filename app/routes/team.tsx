@@ -121,7 +121,7 @@ export default function Team() {
       </section>
 
       {isAdmin ? (
-        <div className="grid gap-8 lg:grid-cols-2">
+        <div className="grid items-start gap-8 lg:grid-cols-2">
           <section aria-labelledby="invite-heading" className="panel p-5">
             <h2 id="invite-heading" className="font-semibold">
               Invite a colleague
