@@ -40,6 +40,8 @@ const teamRecord = (min: Role, ok: number): Rule => (a) => (a === "outsider" ? 4
 const form = (fields: Record<string, string>): Body => ({ form: fields });
 const json = (body: unknown): Body => ({ json: body });
 const comment = form({ intent: "comment", anchor: "sheet", body: "Access-matrix note from {actor}." });
+/** Names a document that is not this one: passes the access check, then fails validation, changing nothing. */
+const citationUpdate = form({ intent: "update-citation", documentId: "another-document", sheet: "CS-0001", rev: "A" });
 
 export const ACCESS_MATRIX: Record<string, Entry> = {
   "routes/home": { url: "/", get: anyone(200) },
@@ -61,6 +63,10 @@ export const ACCESS_MATRIX: Record<string, Entry> = {
   "sheet-revision": { url: "/sheets/CS-0008/revisions/A", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 200), body: comment } },
   "routes/sheets.$number.diff": { url: "/sheets/CS-0002/diff?from=A&to=B", get: teamRecord("viewer", 200) },
   "routes/sheets.$number.edit": { url: "/sheets/CS-0005/edit", get: teamRecord("engineer", 200), post: { rule: teamRecord("engineer", 200), body: form({ intent: "autosave", source: "# Draft by {actor}\n", baseRevisionId: "" }) } },
+  "routes/documents.new": { url: "/documents/new", get: role("engineer", 200), post: { rule: role("engineer", 400), body: form({ title: "Access matrix document by {actor}", projectId: "" }) } },
+  document: { url: "/documents/PD-0001", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 400), body: citationUpdate } },
+  "document-version": { url: "/documents/PD-0001/versions/1", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 400), body: citationUpdate } },
+  "routes/documents.$number.edit": { url: "/documents/PD-0001/edit", get: teamRecord("engineer", 200), post: { rule: teamRecord("engineer", 200), body: form({ intent: "autosave", source: "# Draft by {actor}\n", baseVersionId: "" }) } },
   "routes/projects": { url: "/projects", get: role("viewer", 200), post: { rule: role("engineer", 302), body: form({ code: "AM-{actor}", name: "Access matrix project", client: "", description: "" }) } },
   "routes/projects.$code": { url: "/projects/GPU-400", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 200), body: form({ code: "GPU-400", name: "400 Hz ground-power unit, 30 kVA", client: "Tarrowfield Airfield Services", description: "Edited by the access matrix ({actor})." }) } },
   "routes/search": { url: "/search?q=filter", get: role("viewer", 200) },
