@@ -2,7 +2,8 @@ import { matchPath } from "react-router";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { ACCESS_MATRIX, ACTORS, entryUrl, type Actor, type Body, type Fixtures, type Outcome } from "../support/access-matrix";
 import { signUpWithTeam, Visitor } from "../support/http";
-import { startOwnServer, type OwnServer } from "../support/own-server";
+import type { SpawnedServer } from "../support/app-server";
+import { startOwnServer } from "../support/own-server";
 import { appRoutes } from "../support/route-config";
 
 /**
@@ -43,7 +44,7 @@ function personalise(body: Body, actor: Actor): Body {
 }
 
 describe("access matrix", () => {
-  let server: OwnServer;
+  let server: SpawnedServer;
   const visitors = new Map<Actor, Visitor>();
   let fixtures: Fixtures;
 

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createApiKey, pageText, signUpWithTeam, Visitor } from "../support/http";
-import { startOwnServer, type OwnServer } from "../support/own-server";
+import type { SpawnedServer } from "../support/app-server";
+import { startOwnServer } from "../support/own-server";
 import { serverQuery } from "../support/server-db";
 
 /** The headers every response must carry, whatever produced it. */
@@ -81,7 +82,7 @@ describe("cross-site requests", () => {
 });
 
 describe("rate limits (a server of this file's own, with limits on)", () => {
-  let server: OwnServer;
+  let server: SpawnedServer;
   beforeAll(async () => {
     server = await startOwnServer({ seed: true, env: { RATE_LIMITS: "on", API_RATE_LIMIT: "5", API_RATE_WINDOW_SECONDS: "60" } });
   });

@@ -1,40 +1,14 @@
-import { spawn, type ChildProcess } from "node:child_process";
-import { freePort, root, runNode, waitFor } from "../../scripts/local.mjs";
-
-export interface OwnServer {
-  url: string;
-  stop(): Promise<void>;
-}
+import { runNode } from "../../scripts/local.mjs";
+import { freePort, spawnServer, type SpawnedServer } from "./app-server";
 
 /**
- * A second app server (the built server.js) on a free port, for tests that need settings
- * the shared test server does not have (rate limits on, a TLS proxy) or a database of
- * their own. It uses this test file's database (integration-db.ts), seeded with the
- * demo team when `seed` is set.
+ * The built server (spawnServer) on this test file's own database (integration-db.ts), with
+ * the suite's settings plus `env`, seeded with the demo team when `seed` is set: for tests
+ * that need other settings (rate limits on) or a database no other test writes to.
  */
-export async function startOwnServer(options: { env?: Record<string, string>; seed?: boolean } = {}): Promise<OwnServer> {
+export async function startOwnServer(options: { env?: Record<string, string>; seed?: boolean } = {}): Promise<SpawnedServer> {
   const databaseUrl = process.env.DATABASE_URL!;
   if (options.seed) await runNode(["scripts/seed.ts"], { DATABASE_URL: databaseUrl, SEED_DEMO: "1", LOG_LEVEL: "warn" }, "seeding the test file's database");
-  const port = await freePort();
-  const url = `http://localhost:${port}`;
-  const child: ChildProcess = spawn(process.execPath, ["server.js"], {
-    cwd: root,
-    env: { ...process.env, DATABASE_URL: databaseUrl, PORT: String(port), APP_URL: url, LOG_LEVEL: "warn", ...options.env },
-    stdio: ["ignore", "inherit", "inherit"],
-  });
-  const exited = new Promise<void>((resolve) => child.once("exit", () => resolve()));
-  await waitFor(async () => {
-    try {
-      return (await fetch(`${url}/healthz`)).ok;
-    } catch {
-      return false;
-    }
-  }, "the test file's own app server", 60_000);
-  return {
-    url,
-    async stop() {
-      child.kill("SIGTERM");
-      await exited;
-    },
-  };
+  const port = String(await freePort());
+  return spawnServer({ ...process.env, DATABASE_URL: databaseUrl, PORT: port, APP_URL: `http://127.0.0.1:${port}`, LOG_LEVEL: "warn", ...options.env });
 }
