@@ -38,7 +38,8 @@ describe("accessibility of every page", () => {
     const email = `a11y-invitee-${Date.now().toString(36)}@example.org`;
     await people.admin!.visitor.postForm("/team", { intent: "invite", email, role: "viewer" });
     const [row] = await serverQuery<{ id: string }>(`select id from invitation where email = $1`, [email]);
-    fixtures = { invitationId: row!.id };
+    const [attachment] = await serverQuery<{ id: string }>(`select a.id from attachment a join calc_sheet s on s.id = a.sheet_id join organization o on o.id = s.team_id where s.number = 6 and o.slug = 'larkfield-power' limit 1`);
+    fixtures = { invitationId: row!.id, attachmentId: attachment?.id ?? "none" };
   });
 
   for (const size of WIDTHS) {

@@ -64,7 +64,8 @@ describe("access matrix", () => {
     const { db } = await import("../../app/.server/db/client");
     const { sql } = await import("drizzle-orm");
     const rows = await db().execute<{ id: string }>(sql`select id from invitation where email = 'matrix-invitee@example.org'`);
-    fixtures = { invitationId: rows.rows[0]!.id };
+    const attachments = await db().execute<{ id: string }>(sql`select a.id from attachment a join calc_sheet s on s.id = a.sheet_id join organization o on o.id = s.team_id where s.number = 6 and o.slug = 'larkfield-power' limit 1`);
+    fixtures = { invitationId: rows.rows[0]!.id, attachmentId: attachments.rows[0]!.id };
   }, 120_000);
   afterAll(async () => {
     await server?.stop();
@@ -80,7 +81,7 @@ describe("access matrix", () => {
       if (route.hasAction) expect(entry.post, `${route.id} has an action: give its entry a post rule and body`).toBeDefined();
       else expect(entry.post, `${route.id} has no action: drop the post rule from its entry`).toBeUndefined();
       if (route.pattern) {
-        const url = entryUrl(entry, { invitationId: "x" });
+        const url = entryUrl(entry, { invitationId: "x", attachmentId: "x" });
         expect(matchPath(route.pattern, url.split("?")[0]!), `${route.id}: ${url} does not match ${route.pattern}`).not.toBeNull();
       }
     }

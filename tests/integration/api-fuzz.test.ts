@@ -57,7 +57,7 @@ describe("API fuzzing", () => {
   });
 
   for (const route of apiRoutes) {
-    const url = entryUrl(ACCESS_MATRIX[route.id]!, { invitationId: "none" });
+    const url = entryUrl(ACCESS_MATRIX[route.id]!, { invitationId: "none", attachmentId: "none" });
     const path = url.split("?")[0]!;
 
     it(`${route.id}: random JSON bodies`, async () => {

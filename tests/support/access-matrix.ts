@@ -15,6 +15,8 @@ export type Rule = (actor: Actor) => Outcome;
 export type Body = { form: Record<string, string> } | { json: unknown };
 export interface Fixtures {
   invitationId: string;
+  /** The demo capture attached to CS-0006. */
+  attachmentId: string;
 }
 export interface Entry {
   /** A concrete URL from the demo seed; it must match the route's pattern. */
@@ -63,6 +65,7 @@ export const ACCESS_MATRIX: Record<string, Entry> = {
   "sheet-revision": { url: "/sheets/CS-0008/revisions/A", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 200), body: comment } },
   "routes/sheets.$number.diff": { url: "/sheets/CS-0002/diff?from=A&to=B", get: teamRecord("viewer", 200) },
   "routes/sheets.$number.edit": { url: "/sheets/CS-0005/edit", get: teamRecord("engineer", 200), post: { rule: teamRecord("engineer", 200), body: form({ intent: "autosave", source: "# Draft by {actor}\n", baseRevisionId: "" }) } },
+  "routes/sheets.$number.attachments.$attachmentId": { url: (f) => `/sheets/CS-0006/attachments/${f.attachmentId}`, get: teamRecord("viewer", 200) },
   "routes/documents.new": { url: "/documents/new", get: role("engineer", 200), post: { rule: role("engineer", 400), body: form({ title: "Access matrix document by {actor}", projectId: "" }) } },
   document: { url: "/documents/PD-0001", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 400), body: citationUpdate } },
   "document-version": { url: "/documents/PD-0001/versions/1", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 400), body: citationUpdate } },
@@ -80,6 +83,7 @@ export const ACCESS_MATRIX: Record<string, Entry> = {
   "routes/api.v1.search": { url: "/api/v1/search?q=filter", get: role("viewer", 200), post: { rule: role("viewer", 405), body: json({}) } },
   "routes/api.v1.blocks": { url: "/api/v1/blocks?calculator=lc-filter&field=f0&min=1%20kHz&max=3%20kHz", get: role("viewer", 200), post: { rule: role("viewer", 405), body: json({}) } },
   "routes/api.v1.sheets.$number.revisions.$rev": { url: "/api/v1/sheets/CS-0001/revisions/A", get: teamRecord("viewer", 200), post: { rule: role("viewer", 405), body: json({}) } },
+  "routes/api.v1.sheets.$number.attachments": { url: "/api/v1/sheets/CS-0006/attachments", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 400), body: json({}) } },
   "api-not-found": { url: "/api/v1/no-such-endpoint", get: anyone(404), post: { rule: anyone(404), body: json({}) } },
   "routes/not-found": { url: "/no-such-page", get: anyone(404) },
 };
