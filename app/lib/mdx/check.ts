@@ -278,14 +278,9 @@ class SourceWalk {
       this.problem(node, "A block id starts with a letter and holds only letters, digits and _ (at most 32 characters).");
       return;
     }
-    const firstLine = this.blockLines.get(id);
-    const { line, column } = this.place(node);
-    if (firstLine !== undefined) {
-      this.problem(node, `The id "${id}" is already used by the block on line ${firstLine}. Give this block another id.`);
-      return;
-    }
-    this.blockLines.set(id, line);
-    if (!sound) return;
+    const place = this.claimBlockId(node, id);
+    if (!place || !sound) return;
+    const { line, column } = place;
     if (this.blocks.length === SOURCE_LIMITS.maxBlocks) {
       this.problem(node, `A sheet may hold at most ${SOURCE_LIMITS.maxBlocks} calculator blocks. Split it into several sheets.`);
     }
@@ -300,6 +295,18 @@ class SourceWalk {
       end: this.offset(node.position?.end.offset),
       attributes,
     });
+  }
+
+  /** Takes a block id for this element, or says which line already uses it; ids are shared by every kind of block. */
+  private claimBlockId(node: JsxElement, id: string): { line: number; column: number } | undefined {
+    const firstLine = this.blockLines.get(id);
+    const place = this.place(node);
+    if (firstLine !== undefined) {
+      this.problem(node, `The id "${id}" is already used by the block on line ${firstLine}. Give this block another id.`);
+      return undefined;
+    }
+    this.blockLines.set(id, place.line);
+    return place;
   }
 
   private checkMeasurement(node: JsxElement): void {
@@ -319,14 +326,9 @@ class SourceWalk {
       this.problem(node, `This block needs an id of a letter, then letters, digits or _ (at most 32), e.g. <${MEASUREMENT_COMPONENT} id="m1" … />.`);
       return;
     }
-    const firstLine = this.blockLines.get(id);
-    const { line, column } = this.place(node);
-    if (firstLine !== undefined) {
-      this.problem(node, `The id "${id}" is already used by the block on line ${firstLine}. Give this block another id.`);
-      return;
-    }
-    this.blockLines.set(id, line);
-    if (!sound) return;
+    const place = this.claimBlockId(node, id);
+    if (!place || !sound) return;
+    const { line, column } = place;
     if (this.blocks.length + this.measurements.length >= SOURCE_LIMITS.maxBlocks) {
       this.problem(node, `A sheet may hold at most ${SOURCE_LIMITS.maxBlocks} blocks. Split it into several sheets.`);
       return;
