@@ -5,20 +5,17 @@
  * page it returns; elsewhere the GIN index finds the matches and ts_rank orders them.
  */
 import { eq, sql, type SQL } from "drizzle-orm";
-import { HIT_START, HIT_STOP, markedToSegments, shownBlockValues } from "~/lib/search/document-text";
+import { HIT_START, HIT_STOP, markedToSegments, matchedBlockLine } from "~/lib/search/document-text";
 import { db, type Database } from "../db/client";
 import { searchDocument } from "../db/schema";
 import { upsertSearchDocument } from "./indexer";
 import { pageOf, TOTAL_CAP, type SearchDocument, type SearchEngine, type SearchFilters, type SearchResult } from "./types";
 
 const HEADLINE_OPTIONS = `StartSel=${HIT_START}, StopSel=${HIT_STOP}, MaxWords=24, MinWords=10, MaxFragments=2, FragmentDelimiter=" … "`;
-/** Block values are marked whole, so the line of the first match can be found and shown without its extra spellings. */
-const BLOCK_HEADLINE_OPTIONS = `StartSel=${HIT_START}, StopSel=${HIT_STOP}, HighlightAll=true`;
-
-/** The prose around the matches, or else the block the match fell in, as its values were typed. */
-function snippetText(row: Pick<Row, "headline" | "block_headline">): string {
-  if (row.headline?.includes(HIT_START) || !row.block_headline?.includes(HIT_START)) return row.headline ?? "";
-  return shownBlockValues(row.block_headline, HIT_START);
+/** The prose around the matches, or else the block line the query found, as its values were typed. */
+function snippetText(row: Pick<Row, "headline" | "block_values">, query: string): string {
+  if (row.headline?.includes(HIT_START) || !row.block_values) return row.headline ?? "";
+  return matchedBlockLine(row.block_values, query) ?? row.headline ?? "";
 }
 
 /** `'dc-link' <-> 'dc' <-> 'link'` in a tsquery's text form. */
@@ -63,8 +60,8 @@ interface Row extends Record<string, unknown> {
   revision_label: string | null;
   score: number;
   headline: string;
-  /** The block values with every match marked, when the query has words. */
-  block_headline?: string;
+  /** Block values, for the snippet when the prose holds no match. */
+  block_values?: string;
   candidates?: number;
 }
 
@@ -112,8 +109,7 @@ export class PostgresSearchEngine implements SearchEngine {
         : sql`select d.* from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
       // Snippets only for the page: ts_headline re-parses the text, so it runs on the few rows shown.
       page = sql`
-        select p.*, ts_headline('sinewright', p.body, ${ranking}, ${HEADLINE_OPTIONS}) as headline,
-          ts_headline('sinewright', p.block_values, ${ranking}, ${BLOCK_HEADLINE_OPTIONS}) as block_headline
+        select p.*, ts_headline('sinewright', p.body, ${ranking}, ${HEADLINE_OPTIONS}) as headline
         from (
           select c.id, c.kind, c.number, c.title, c.project_code, c.state, c.revision_label, c.body, c.block_values,
             ts_rank(c.search, ${ranking})::float8 as score, count(*) over ()::int as candidates
@@ -135,7 +131,7 @@ export class PostgresSearchEngine implements SearchEngine {
         projectCode: r.project_code,
         state: r.state,
         revisionLabel: r.revision_label,
-        snippet: markedToSegments(snippetText(r), HIT_START, HIT_STOP),
+        snippet: markedToSegments(snippetText(r, text), HIT_START, HIT_STOP),
         score: Number(r.score) || 0,
       })),
       ...counted,

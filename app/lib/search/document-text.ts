@@ -122,6 +122,29 @@ export function blockValuesText(blocks: IndexedBlock[], calculatorById: (id: str
 }
 
 /**
+ * The block line a query found, as a reader should see it: the line holding the most of
+ * the query's words (in its shown half or its spellings), cut to its shown half, with
+ * the words that appear there as typed marked. Undefined when no line holds any word.
+ */
+export function matchedBlockLine(blockValues: string, query: string): string | undefined {
+  const words = query
+    .toLowerCase()
+    .split(/[\s"()]+/)
+    .filter((w) => w && w !== "or" && !w.startsWith("-"));
+  let best: string | undefined;
+  let bestScore = 0;
+  for (const line of blockValues.split("\n")) {
+    const text = line.toLowerCase();
+    const score = words.filter((w) => text.includes(w)).length;
+    if (score > bestScore) [best, bestScore] = [line, score];
+  }
+  if (best === undefined) return undefined;
+  const cut = best.indexOf(SPELLINGS_MARK);
+  const shown = cut === -1 ? best : best.slice(0, cut);
+  return shown.replace(/[\p{L}\p{N}.%°-]+/gu, (token) => (words.includes(token.toLowerCase()) ? `${HIT_START}${token}${HIT_STOP}` : token));
+}
+
+/**
  * The part of marked block-value text a reader should see: the shown half of the first
  * line holding a match (the match highlighted when it fell there), never the spellings.
  */

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { getCalculator } from "~/lib/calc/registry";
 import { prepareSheet } from "~/lib/sheets/pipeline";
-import { blockValuesText, HIT_START, HIT_STOP, markedToSegments, proseText, quantitySpellings, shownBlockValues, SPELLINGS_MARK } from "~/lib/search/document-text";
+import { blockValuesText, HIT_START, HIT_STOP, markedToSegments, proseText, matchedBlockLine, quantitySpellings, shownBlockValues, SPELLINGS_MARK } from "~/lib/search/document-text";
 
 describe("quantity spellings", () => {
   it("spells 20 kHz the ways engineers type it", () => {
@@ -46,6 +46,13 @@ describe("search text of a sheet", () => {
     // A referenced input contributes its computed value, not the reference.
     expect(lcFilter).not.toContain("=qs1");
     expect(lcFilter).toMatch(/vout 39\.8\d* V/);
+  });
+
+  it("picks the block line a query found, by its shown values or its spellings, and marks the words shown as typed", () => {
+    const values = [`qs1 · Quasi-square (quasi-square): vdc 48 V, alpha 23 deg${SPELLINGS_MARK}48 v 48v`, `lc1 · LC output filter (lc-filter): fsw 20kHz${SPELLINGS_MARK}20 khz 20000 hz`].join("\n");
+    expect(matchedBlockLine(values, "20000 hz")).toBe("lc1 · LC output filter (lc-filter): fsw 20kHz");
+    expect(matchedBlockLine(values, "quasi-square 48 V")).toBe(`qs1 · ${HIT_START}Quasi-square${HIT_STOP} (${HIT_START}quasi-square${HIT_STOP}): vdc ${HIT_START}48${HIT_STOP} ${HIT_START}V${HIT_STOP}, alpha 23 deg`);
+    expect(matchedBlockLine(values, "damping")).toBeUndefined();
   });
 
   it("shows a reader the block and its values as typed, never the extra spellings", () => {
