@@ -7,7 +7,7 @@
  */
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import type { Root as HastRoot } from "hast";
-import { citationKey, citationStatus, type CitableRevision, type CitationStatus, type CitationView } from "~/lib/documents/citations";
+import { citationKey, citationStatus, toCitationView, type CitableRevision, type CitationStatus, type CitationView } from "~/lib/documents/citations";
 import { setCitationRevision } from "~/lib/mdx";
 import type { SourceCitation, SourceProblem } from "~/lib/mdx/types";
 import { documentNumberLabel, parseSheetNumber, sheetNumberLabel } from "~/lib/sheets/numbering";
@@ -281,20 +281,7 @@ async function stampHealth(revisionId: string) {
 
 /** What the browser needs of a resolved citation. */
 export function citationView(c: ResolvedCitation): CitationView {
-  return {
-    key: c.key,
-    sheet: c.sheet,
-    rev: c.rev,
-    state: c.state,
-    stale: c.stale,
-    words: c.words,
-    title: c.title,
-    href: c.href,
-    stampedAt: c.stampedAt,
-    checkerName: c.checkerName,
-    contentHash: c.contentHash,
-    updateTo: c.updateTo ? { label: c.updateTo.label } : null,
-  };
+  return toCitationView(c, c);
 }
 
 /** The citations of a document version in reference order, with their states. */

@@ -6,22 +6,12 @@
  */
 import { useId, useRef, useState } from "react";
 import { useRevalidator } from "react-router";
-import { formatBytes } from "~/lib/attachments/files";
+import { formatBytes, type AttachmentSummary } from "~/lib/attachments/files";
 import { formatQuantity } from "~/lib/calc/format";
 import { OverMark, PassMark } from "./calc/status-icons";
 
-export interface AttachmentItem {
-  id: string;
-  fileName: string;
-  contentType: string;
-  kind: "pdf" | "image" | "capture";
-  size: number;
-  sha256: string;
-  createdAt: string;
-  uploaderName: string | null;
-  channels: { name: string; unit: string; fundamentalFrequency: number; fundamentalRms: number; thd: number }[];
-  url: string;
-}
+/** An attachment with the address it is downloaded from. */
+export type AttachmentItem = AttachmentSummary & { url: string };
 
 interface UploadState {
   phase: "sending" | "receiving" | "analysing" | "storing" | "done" | "failed";

@@ -2,7 +2,8 @@ import type { Route } from "./+types/api.v1.sheets.$number.attachments";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
 import { apiError, methodNotAllowed } from "~/.server/api";
-import { AttachmentError, listAttachments, uploadAttachment, type AttachmentSummary, type IngestProgress } from "~/.server/attachments";
+import { AttachmentError, listAttachments, uploadAttachment, type IngestProgress } from "~/.server/attachments";
+import type { AttachmentSummary } from "~/lib/attachments/files";
 import { getSheet } from "~/.server/sheets";
 
 /** GET /api/v1/sheets/:number/attachments — the sheet's attachments, with each capture's channels. Viewers and up. */

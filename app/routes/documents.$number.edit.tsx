@@ -1,13 +1,13 @@
 import type { EditorView } from "@codemirror/view";
 import { useDeferredValue, useMemo, useRef, useState } from "react";
 import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/documents.$number.edit";
 import { ReferenceList } from "~/components/citations";
 import { SheetView, type CitationTarget } from "~/components/sheet-view";
 import { insertAtCursor, SourceEditorLayout, useAutosavedSource } from "~/components/source-editor";
-import { citationKey, citationStatus, type CitationView } from "~/lib/documents/citations";
-import { SOURCE_LIMITS, type SourceProblem } from "~/lib/mdx/types";
+import { citationKey, citationStatus, toCitationView, type CitationView } from "~/lib/documents/citations";
+import { sourceEditorForm } from "~/lib/forms/sheets";
+import type { SourceProblem } from "~/lib/mdx/types";
 import { parseDocumentNumber, parseSheetNumber, sheetNumberLabel } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
 import { requireMember } from "~/.server/access";
@@ -39,16 +39,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const editorAction = z.discriminatedUnion("intent", [
-  z.object({
-    intent: z.literal("save"),
-    source: z.string().max(SOURCE_LIMITS.maxLength * 2, "The source is far over the 200 KB limit."),
-    baseVersionId: z.string().default(""),
-    note: z.string().trim().max(500, "Keep the version note under 500 characters.").default(""),
-  }),
-  z.object({ intent: z.literal("autosave"), source: z.string().max(SOURCE_LIMITS.maxLength * 2), baseVersionId: z.string().default("") }),
-  z.object({ intent: z.literal("discard-draft") }),
-]);
+const editorAction = sourceEditorForm("baseVersionId", "version");
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { me, document } = await loadDocument(request, params.number);
@@ -94,20 +85,11 @@ export default function DocumentEditor() {
       const sheet = number === undefined ? undefined : loaded.sheets.find((s) => s.number === sheetNumberLabel(number));
       const status = citationStatus(sheet, c.rev);
       const label = sheet?.number ?? c.sheet.toUpperCase();
-      seen.set(key, {
+      const rev = c.rev.toUpperCase();
+      seen.set(
         key,
-        sheet: label,
-        rev: c.rev.toUpperCase(),
-        state: status.state,
-        stale: status.stale,
-        words: status.words,
-        title: sheet?.title ?? null,
-        href: sheet ? `/sheets/${label}/revisions/${c.rev.toUpperCase()}` : null,
-        stampedAt: null,
-        checkerName: null,
-        contentHash: null,
-        updateTo: status.updateTo ? { label: status.updateTo.label } : null,
-      });
+        toCitationView(status, { key, sheet: label, rev, title: sheet?.title ?? null, href: sheet ? `/sheets/${label}/revisions/${rev}` : null, stampedAt: null, checkerName: null, contentHash: null }),
+      );
     }
     const references = [...seen.values()];
     const targets: Record<string, CitationTarget> = Object.fromEntries(

@@ -1,14 +1,14 @@
 import type { EditorView } from "@codemirror/view";
 import { useCallback, useDeferredValue, useMemo, useRef, useState } from "react";
 import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
-import { z } from "zod";
 import type { Route } from "./+types/sheets.$number.edit";
 import { AttachmentsPanel } from "~/components/attachments-panel";
 import { SheetView } from "~/components/sheet-view";
 import { insertAtCursor, SourceEditorLayout, useAutosavedSource } from "~/components/source-editor";
 import { blockSnippet, checkSheetSource, nextBlockId, setBlockInput } from "~/lib/mdx";
 import { measurementSnippet } from "~/lib/mdx/components";
-import { SOURCE_LIMITS, type SourceProblem } from "~/lib/mdx/types";
+import { sourceEditorForm } from "~/lib/forms/sheets";
+import type { SourceProblem } from "~/lib/mdx/types";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
 import { requireMember } from "~/.server/access";
@@ -48,16 +48,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const editorAction = z.discriminatedUnion("intent", [
-  z.object({
-    intent: z.literal("save"),
-    source: z.string().max(SOURCE_LIMITS.maxLength * 2, "The source is far over the 200 KB limit."),
-    baseRevisionId: z.string().default(""),
-    note: z.string().trim().max(500, "Keep the revision note under 500 characters.").default(""),
-  }),
-  z.object({ intent: z.literal("autosave"), source: z.string().max(SOURCE_LIMITS.maxLength * 2), baseRevisionId: z.string().default("") }),
-  z.object({ intent: z.literal("discard-draft") }),
-]);
+const editorAction = sourceEditorForm("baseRevisionId", "revision");
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { me, sheet } = await loadSheet(request, params.number);

@@ -11,7 +11,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import type { Readable } from "node:stream";
 import { and, asc, eq, inArray } from "drizzle-orm";
-import { numberedFileName, safeFileName } from "~/lib/attachments/files";
+import { numberedFileName, safeFileName, type AttachmentSummary } from "~/lib/attachments/files";
 import type { CaptureAnalysis } from "~/lib/waveform/analyse";
 import type { StoredCapture } from "~/lib/waveform/measurement";
 import type { Member } from "../access";
@@ -33,18 +33,6 @@ export function storageKeyFor(teamId: string, attachmentId: string): string {
   return `teams/${teamId}/attachments/${attachmentId}`;
 }
 
-export interface AttachmentSummary {
-  id: string;
-  fileName: string;
-  contentType: string;
-  kind: "pdf" | "image" | "capture";
-  size: number;
-  sha256: string;
-  createdAt: string;
-  uploaderName: string | null;
-  /** Channels of a capture with their fundamental and THD, for the list. */
-  channels: { name: string; unit: string; fundamentalFrequency: number; fundamentalRms: number; thd: number }[];
-}
 
 const UNIQUE_VIOLATION = "23505";
 const NAME_ATTEMPTS = 50;

@@ -8,6 +8,20 @@
  */
 export type AttachmentKind = "pdf" | "image" | "capture";
 
+/** An attachment as lists and the API show it (no bytes). */
+export interface AttachmentSummary {
+  id: string;
+  fileName: string;
+  contentType: string;
+  kind: AttachmentKind;
+  size: number;
+  sha256: string;
+  createdAt: string;
+  uploaderName: string | null;
+  /** Channels of a capture with their fundamental and THD, for the list. */
+  channels: { name: string; unit: string; fundamentalFrequency: number; fundamentalRms: number; thd: number }[];
+}
+
 export interface SniffedType {
   kind: AttachmentKind;
   contentType: string;

@@ -102,3 +102,24 @@ export interface CitationView {
   contentHash: string | null;
   updateTo: { label: string } | null;
 }
+
+/** What a page needs beside the status: which citation, the cited sheet's title, its link and stamp. */
+export type CitationFacts = Pick<CitationView, "key" | "sheet" | "rev" | "title" | "href" | "stampedAt" | "checkerName" | "contentHash">;
+
+/** A citation as pages show it: its status and facts, with only the label of the update's revision. */
+export function toCitationView(status: CitationStatus, facts: CitationFacts): CitationView {
+  return {
+    key: facts.key,
+    sheet: facts.sheet,
+    rev: facts.rev,
+    state: status.state,
+    stale: status.stale,
+    words: status.words,
+    title: facts.title,
+    href: facts.href,
+    stampedAt: facts.stampedAt,
+    checkerName: facts.checkerName,
+    contentHash: facts.contentHash,
+    updateTo: status.updateTo ? { label: status.updateTo.label } : null,
+  };
+}

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { SOURCE_LIMITS } from "../mdx/types";
 
 export const tagList = z
   .string()
@@ -35,3 +36,17 @@ export const citationUpdateForm = z.object({
   sheet: z.string().trim().min(1, "Say which sheet the citation names.").max(20),
   rev: z.string().trim().min(1, "Say which revision the citation names.").max(4),
 });
+
+/**
+ * The MDX editor's form, for sheets and documents alike: save, autosave a draft, or
+ * discard it. `baseField` names the revision (or version) the author started from.
+ */
+export function sourceEditorForm<K extends "baseRevisionId" | "baseVersionId">(baseField: K, unit: "revision" | "version") {
+  const base = { [baseField]: z.string().default("") } as { [P in K]: z.ZodDefault<z.ZodString> };
+  const source = z.string().max(SOURCE_LIMITS.maxLength * 2, "The source is far over the 200 KB limit.");
+  return z.discriminatedUnion("intent", [
+    z.object({ intent: z.literal("save"), source, ...base, note: z.string().trim().max(500, `Keep the ${unit} note under 500 characters.`).default("") }),
+    z.object({ intent: z.literal("autosave"), source, ...base }),
+    z.object({ intent: z.literal("discard-draft") }),
+  ]);
+}
