@@ -42,6 +42,8 @@ export default function handleRequest(request: Request, responseStatusCode: numb
       },
       onError(error: unknown) {
         responseStatusCode = 500;
+        const log = currentRequestLog();
+        if (log) log.renderFailed = true;
         // A client that went away mid-page (closed tab, a benchmark's last connections) is not a server error.
         if (shellRendered && !request.signal.aborted) logger().error({ err: loggableError(error), url: redactUrl(request.url) }, "rendering failed after the page started");
       },

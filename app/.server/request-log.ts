@@ -10,6 +10,8 @@ export interface RequestLogContext {
   requestId?: string;
   userId?: string;
   via?: "session" | "api-key";
+  /** Rendering failed after the page started streaming: such a page is never cached. */
+  renderFailed?: boolean;
 }
 
 const storage = new AsyncLocalStorage<RequestLogContext>();

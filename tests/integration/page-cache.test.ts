@@ -1,0 +1,135 @@
+import { describe, expect, it } from "vitest";
+import { pageText, teamWithRoles, type Visitor } from "../support/http";
+import { serverQuery } from "../support/server-db";
+
+const { TABLES_PAGES_DO_NOT_SHOW } = await import("../../app/.server/page-cache");
+
+const SOURCE = `## DC link for the cache test
+
+<DcLink id="dc1" p="3 kW" vdc="400 V" f="50 Hz" rippleVpp="8 V" />
+`;
+
+async function sheetWithRevision(author: Visitor, title: string) {
+  const created = await author.postForm("/sheets/new", { title, projectId: "", tags: "" });
+  const label = created.headers.get("location")!.split("/")[2]!;
+  const saved = await author.postForm(`/sheets/${label}/edit`, { intent: "save", source: SOURCE, baseRevisionId: "", note: "" });
+  expect(saved.status).toBe(302);
+  return label;
+}
+
+async function view(visitor: Visitor, path: string) {
+  const response = await visitor.get(path);
+  const html = await response.text();
+  return { response, html, cache: response.headers.get("x-page-cache"), text: html.replace(/<[^>]+>/g, " ") };
+}
+
+describe("rendered-page cache", () => {
+  it("serves a second view of an unchanged sheet from the cache, with its own nonce and headers", async () => {
+    const { people } = await teamWithRoles("pagecache-hit", ["engineer", "viewer"]);
+    const label = await sheetWithRevision(people.engineer!.visitor, "Cached DC link");
+    const viewer = people.viewer!.visitor;
+    const first = await view(viewer, `/sheets/${label}`);
+    const second = await view(viewer, `/sheets/${label}`);
+    expect(first.cache).toBe("miss");
+    expect(second.cache).toBe("hit");
+    expect(second.response.status).toBe(200);
+    expect(second.text).toContain("Cached DC link");
+
+    // Each answer carries one fresh nonce, the one its policy allows; the page is otherwise the same.
+    const nonces = (html: string) => [...new Set([...html.matchAll(/nonce="([^"]+)"/g)].map((m) => m[1]))];
+    expect(nonces(second.html)).toHaveLength(1);
+    expect(nonces(second.html)[0]).not.toBe(nonces(first.html)[0]);
+    expect(second.response.headers.get("content-security-policy")).toContain(`'nonce-${nonces(second.html)[0]}'`);
+    expect(second.html.replaceAll(nonces(second.html)[0]!, "N")).toBe(first.html.replaceAll(nonces(first.html)[0]!, "N"));
+    expect(second.response.headers.get("x-content-type-options")).toBe("nosniff");
+    expect(second.response.headers.get("x-request-id")).toMatch(/^[0-9a-f-]{36}$/);
+    expect(second.response.headers.get("x-request-id")).not.toBe(first.response.headers.get("x-request-id"));
+  });
+
+  it("shows every change at once: a comment, a stamp, a renamed author, a new role, a write made straight in the database", async () => {
+    const { teamId, people } = await teamWithRoles("pagecache-change", ["engineer", "checker", "viewer"]);
+    const author = people.engineer!;
+    const viewer = people.viewer!.visitor;
+    const label = await sheetWithRevision(author.visitor, "Changing DC link");
+    await view(viewer, `/sheets/${label}`);
+    expect((await view(viewer, `/sheets/${label}`)).cache).toBe("hit");
+
+    // A comment through the page.
+    expect((await people.checker!.visitor.postForm(`/sheets/${label}`, { intent: "comment", anchor: "block:dc1", body: "Ripple looks tight for the cache test." })).status).toBe(200);
+    const afterComment = await view(viewer, `/sheets/${label}`);
+    expect(afterComment.cache).toBe("miss");
+    expect(afterComment.text).toContain("Ripple looks tight for the cache test.");
+
+    // Submitted and stamped: the viewer sees the stamp on the next view.
+    expect((await author.visitor.postForm(`/sheets/${label}`, { intent: "submit", checkerId: people.checker!.userId })).status).toBe(200);
+    expect((await people.checker!.visitor.postForm(`/sheets/${label}`, { intent: "stamp" })).status).toBe(200);
+    expect(await pageText(await viewer.get(`/sheets/${label}`))).toMatch(/Verified/);
+
+    // A write outside the app (an administrator's SQL) is seen too: the triggers move the version.
+    await view(viewer, `/sheets/${label}`);
+    await serverQuery(`update "user" set name = 'Renamed Author For Cache' where id = $1`, [author.userId]);
+    const renamed = await view(viewer, `/sheets/${label}`);
+    expect(renamed.cache).toBe("miss");
+    expect(renamed.text).toContain("Renamed Author For Cache");
+
+    // A new role is part of who is asking: the engineer-only actions appear at once.
+    await view(viewer, `/sheets/${label}`);
+    await serverQuery(`update member set role = 'engineer' where user_id = $1 and organization_id = $2`, [people.viewer!.userId, teamId]);
+    const promoted = await view(viewer, `/sheets/${label}`);
+    expect(promoted.cache).toBe("miss");
+    expect(promoted.text).toContain("Reuse as a new sheet");
+  });
+
+  it("keeps one reader's page from another and is not moved by another team's writes", async () => {
+    const mine = await teamWithRoles("pagecache-mine", ["engineer", "viewer", "viewer2"]);
+    const other = await teamWithRoles("pagecache-other", ["engineer"]);
+    const label = await sheetWithRevision(mine.people.engineer!.visitor, "Team-private DC link");
+    await view(mine.people.viewer!.visitor, `/sheets/${label}`);
+    // Another reader renders their own page (their name is on it), never the first reader's.
+    const second = await view(mine.people.viewer2!.visitor, `/sheets/${label}`);
+    expect(second.cache).toBe("miss");
+    expect(second.text).not.toContain("Test pagecache-mine-viewer ");
+    // Another team's save leaves this team's pages cached.
+    await sheetWithRevision(other.people.engineer!.visitor, "Other team's sheet");
+    expect((await view(mine.people.viewer!.visitor, `/sheets/${label}`)).cache).toBe("hit");
+    // And a member of that other team still gets no page of this one.
+    // (numbers are per team: the same number there is that team's own sheet).
+    const stranger = await view(other.people.engineer!.visitor, `/sheets/${label}`);
+    expect(stranger.text).not.toContain("Team-private DC link");
+  });
+
+  it("caches a project document page and shows a citation's new state once the cited sheet changes", async () => {
+    const { teamId, people } = await teamWithRoles("pagecache-doc", ["engineer", "checker"]);
+    const author = people.engineer!.visitor;
+    const label = await sheetWithRevision(author, "Cited DC link");
+    expect((await author.postForm("/projects", { code: "CACHE-1", name: "Cache test project", client: "", description: "" })).status).toBe(302);
+    const [project] = await serverQuery<{ id: string }>(`select id from project where team_id = $1 and code = 'CACHE-1'`, [teamId]);
+    const created = await author.postForm("/documents/new", { title: "Cache test report", projectId: project!.id });
+    expect(created.status).toBe(302);
+    const number = created.headers.get("location")!.split("/")[2]!;
+    const saved = await author.postForm(`/documents/${number}/edit`, { intent: "save", source: `The link is sized in <Cite sheet="${label}" rev="A" />.\n`, baseVersionId: "", note: "" });
+    expect(saved.status).toBe(302);
+    await view(author, `/documents/${number}`);
+    const again = await view(author, `/documents/${number}`);
+    expect(again.cache).toBe("hit");
+    expect(again.text).not.toContain("waiting for check");
+    // The cited revision is sent for checking: the document's citation says so on the next view.
+    expect((await author.postForm(`/sheets/${label}`, { intent: "submit", checkerId: people.checker!.userId })).status).toBe(200);
+    const changed = await view(author, `/documents/${number}`);
+    expect(changed.cache).toBe("miss");
+    expect(changed.text).toContain("waiting for check");
+  });
+
+  it("has a content-version trigger on every table a page can show, and names why each other table has none", async () => {
+    const tables = await serverQuery<{ name: string; watched: boolean }>(
+      `select c.relname as name, exists (select 1 from pg_trigger t where t.tgrelid = c.oid and t.tgname = c.relname || '_content_changed') as watched
+       from pg_class c join pg_namespace n on n.oid = c.relnamespace
+       where n.nspname = 'public' and c.relkind in ('r', 'p')`,
+    );
+    expect(tables.length).toBeGreaterThan(20);
+    const unaccounted = tables.filter((t) => !t.watched && !(t.name in TABLES_PAGES_DO_NOT_SHOW)).map((t) => t.name);
+    expect(unaccounted, "a new table needs a content_changed trigger (migration) or a reason in TABLES_PAGES_DO_NOT_SHOW").toEqual([]);
+    const watchedButListed = tables.filter((t) => t.watched && t.name in TABLES_PAGES_DO_NOT_SHOW).map((t) => t.name);
+    expect(watchedButListed).toEqual([]);
+  });
+});
