@@ -18,6 +18,8 @@ export { config as serverConfig, ConfigError } from "./.server/config";
 export { logger } from "./.server/logger";
 export { createRouteMatcher, redactUrl, runWithRequestLog } from "./.server/request-log";
 export { securityHeaders };
+/** For server.js: cached sheet and document pages, answered before the framework builds a request. */
+export { cachedPageAnswer, cachedPagePatterns } from "./.server/page-cache";
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
   // One nonce per response: the framework's own inline scripts carry it; nothing else may run inline.

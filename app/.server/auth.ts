@@ -20,6 +20,10 @@ const roles = {
   viewer: noTeamPowers,
 };
 
+/** A session lasts two weeks and is extended by the first request a day after its last extension. */
+export const SESSION_SECONDS = 60 * 60 * 24 * 14;
+export const SESSION_REFRESH_SECONDS = 60 * 60 * 24;
+
 /** The client IP header our server sets from the socket (or trusted proxy); clients cannot forge it. */
 export const CLIENT_IP_HEADER = "x-sinewright-client-ip";
 
@@ -48,7 +52,7 @@ function createAuth() {
         });
       },
     },
-    session: { expiresIn: 60 * 60 * 24 * 14, updateAge: 60 * 60 * 24 },
+    session: { expiresIn: SESSION_SECONDS, updateAge: SESSION_REFRESH_SECONDS },
     rateLimit: {
       enabled: cfg.RATE_LIMITS === "on",
       storage: "database",

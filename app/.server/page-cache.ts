@@ -7,19 +7,25 @@
  * cached page is never older than its key says; any write makes the next view render
  * afresh, on every server, with nothing to invalidate by hand.
  *
- * Only the body is kept. Each answer gets its own nonce (swapped into the cached
- * HTML), its own headers and request id. Served pages say `X-Page-Cache: hit|miss`.
+ * A kept page is sent byte for byte as it was rendered, so it is compressed once, when
+ * kept. Its inline scripts are allowed by their SHA-256 in the policy rather than by the
+ * first answer's nonce (a nonce must not be reused; a hash of the page's own scripts
+ * allows exactly those). Served pages say `X-Page-Cache: hit|miss`.
  */
-import { randomBytes } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { createHash } from "node:crypto";
+import { promisify } from "node:util";
+import { brotliCompress, constants as zlibConstants, gzip } from "node:zlib";
+import { asc, eq, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { MiddlewareFunction } from "react-router";
-import { getSignedIn, membershipsOf } from "./access";
+import { getSignedIn, signedSessionToken } from "./access";
+import { SESSION_REFRESH_SECONDS, SESSION_SECONDS } from "./auth";
 import { config } from "./config";
 import { db } from "./db/client";
-import { teamContentVersion } from "./db/schema";
-import { currentRequestLog } from "./request-log";
-import { applySecurityHeaders, isSecureRequest } from "./security-headers";
+import { member, organization, teamContentVersion } from "./db/schema";
+import { currentRequestLog, noteSignedIn } from "./request-log";
+import { isRole } from "./roles";
+import { isSecureRequest, securityHeaders } from "./security-headers";
 
 /**
  * Tables whose rows no cached page shows, so writing them moves no version. Every other
@@ -38,11 +44,16 @@ export const TABLES_PAGES_DO_NOT_SHOW: Record<string, string> = {
 };
 
 interface CachedPage {
-  /** The HTML split at its nonce, so each answer can carry a fresh one. */
-  parts: Buffer[];
-  status: number;
+  html: Buffer;
+  /** The same bytes compressed once, for the encodings browsers ask for. */
+  gzip: Buffer;
+  br: Buffer;
+  /** SHA-256 sources of the page's inline scripts, for its Content-Security-Policy. */
+  scriptHashes: string[];
   contentType: string;
 }
+
+export type PageEncoding = "br" | "gzip" | "identity";
 
 let pages: LRUCache<string, CachedPage> | undefined;
 function store(): LRUCache<string, CachedPage> | undefined {
@@ -50,77 +61,164 @@ function store(): LRUCache<string, CachedPage> | undefined {
   if (megabytes === 0) return undefined;
   pages ??= new LRUCache<string, CachedPage>({
     maxSize: megabytes * 1024 * 1024,
-    sizeCalculation: (page) => page.parts.reduce((sum, part) => sum + part.length, 0) || 1,
+    sizeCalculation: (page) => page.html.length + page.gzip.length + page.br.length,
   });
   return pages;
 }
 
-async function teamVersion(teamId: string): Promise<number> {
-  const [row] = await db().select({ version: teamContentVersion.version }).from(teamContentVersion).where(eq(teamContentVersion.teamId, teamId));
-  return row?.version ?? 0;
-}
+const gzipAsync = promisify(gzip);
+const brotliAsync = promisify(brotliCompress);
 
-/** The nonce entry.server put in the page's policy: every `nonce="…"` in the HTML is this one. */
-function nonceOf(response: Response): string | undefined {
-  return /'nonce-([A-Za-z0-9+/=]+)'/.exec(response.headers.get("content-security-policy") ?? "")?.[1];
-}
-
-function splitAtNonce(html: Buffer, nonce: string): Buffer[] {
-  const marker = Buffer.from(`nonce="${nonce}"`);
-  const parts: Buffer[] = [];
-  let from = 0;
-  for (let at = html.indexOf(marker, from); at !== -1; at = html.indexOf(marker, from)) {
-    parts.push(html.subarray(from, at));
-    from = at + marker.length;
+/** `'sha256-…'` of each inline script, exactly as the browser hashes its text. */
+export function inlineScriptHashes(html: string): string[] {
+  const hashes = new Set<string>();
+  for (const match of html.matchAll(/<script(?![^>]*\ssrc=)[^>]*>([\s\S]*?)<\/script>/gi)) {
+    hashes.add(`'sha256-${createHash("sha256").update(match[1]!, "utf8").digest("base64")}'`);
   }
-  parts.push(html.subarray(from));
-  return parts;
+  return [...hashes];
 }
 
-function answer(request: Request, page: CachedPage): Response {
-  const nonce = randomBytes(16).toString("base64");
-  const marker = Buffer.from(`nonce="${nonce}"`);
-  const body = Buffer.concat(page.parts.flatMap((part, i) => (i === 0 ? [part] : [marker, part])));
-  const headers = new Headers({ "Content-Type": page.contentType, "X-Page-Cache": "hit" });
-  applySecurityHeaders(headers, { nonce, html: true, secure: isSecureRequest(request) });
-  return new Response(body, { status: page.status, headers });
+async function keep(html: Buffer, contentType: string): Promise<CachedPage> {
+  const [gzipped, brotli] = await Promise.all([
+    gzipAsync(html),
+    // Quality 5: most of brotli's gain at a few milliseconds, once per kept page.
+    brotliAsync(html, { params: { [zlibConstants.BROTLI_PARAM_QUALITY]: 5, [zlibConstants.BROTLI_PARAM_SIZE_HINT]: html.length } }),
+  ]);
+  return { html, gzip: gzipped, br: brotli, scriptHashes: inlineScriptHashes(html.toString("utf8")), contentType };
+}
+
+function pageHeaders(page: CachedPage, secure: boolean): Record<string, string> {
+  return { ...securityHeaders({ scriptSources: page.scriptHashes, html: true, secure }), "Content-Type": page.contentType, Vary: "Accept-Encoding", "X-Page-Cache": "hit" };
+}
+
+interface Reader {
+  userId: string;
+  userName: string;
+  activeTeamId: string | null;
+  /** Every team of the reader with its content version, by name. */
+  teams: { teamId: string; teamName: string; role: string; version: number }[];
+}
+
+/** The reader's teams with each team's content version, in one query. */
+async function readerTeams(userId: string): Promise<Reader["teams"]> {
+  return db()
+    .select({ teamId: organization.id, teamName: organization.name, role: member.role, version: sql<number>`coalesce(${teamContentVersion.version}, 0)`.mapWith(Number) })
+    .from(member)
+    .innerJoin(organization, eq(member.organizationId, organization.id))
+    .leftJoin(teamContentVersion, eq(teamContentVersion.teamId, organization.id))
+    .where(eq(member.userId, userId))
+    .orderBy(asc(organization.name));
 }
 
 /**
- * Route middleware for a page worth caching. Anything unusual (not a plain GET of the
- * page, nobody signed in, an API key, no team) goes straight to the loaders, which
- * answer it as they always do.
+ * The reader a session token belongs to, with their teams, in one query: the whole cost of a
+ * hit. A session past its expiry, or due for better-auth's daily extension, gives null, so the
+ * framework's own session check answers (and extends it).
+ */
+async function readerOfSession(token: string): Promise<Reader | null> {
+  const rows = await db().execute<{ user_id: string; user_name: string; active_team_id: string | null; team_id: string | null; team_name: string | null; role: string | null; version: number | null }>(sql`
+    select u.id as user_id, u.name as user_name, s.active_organization_id as active_team_id,
+      o.id as team_id, o.name as team_name, m.role, coalesce(v.version, 0)::int as version
+    from session s
+    join "user" u on u.id = s.user_id
+    left join member m on m.user_id = u.id
+    left join organization o on o.id = m.organization_id
+    left join team_content_version v on v.team_id = o.id
+    where s.token = ${token} and s.expires_at > now() + make_interval(secs => ${SESSION_SECONDS - SESSION_REFRESH_SECONDS})
+    order by o.name`);
+  const first = rows.rows[0];
+  if (!first) return null;
+  const teams = rows.rows.filter((r) => r.team_id && r.team_name && r.role).map((r) => ({ teamId: r.team_id!, teamName: r.team_name!, role: r.role!, version: Number(r.version) }));
+  return { userId: first.user_id, userName: first.user_name, activeTeamId: first.active_team_id, teams };
+}
+
+/**
+ * Everything a cached page depends on besides its rows: who reads it (their name shows in the
+ * header, their role and authorship decide the actions, their teams fill the team switcher)
+ * and the team's content version. Null when the framework should answer (no team: the
+ * loaders redirect).
+ */
+function pageKey(reader: Reader, pathWithSearch: string): string | null {
+  const teams = reader.teams.filter((t) => isRole(t.role));
+  // The team requireMember picks for a session.
+  const team = teams.find((t) => t.teamId === reader.activeTeamId) ?? teams[0];
+  if (!team) return null;
+  return JSON.stringify([team.version, team.teamId, reader.userId, reader.userName, teams.map((t) => [t.teamId, t.teamName, t.role]), pathWithSearch]);
+}
+
+function pathWithSearch(url: string): string {
+  const parsed = new URL(url, "http://page");
+  return parsed.pathname + parsed.search;
+}
+
+/**
+ * Route middleware for a page worth caching: answers from the cache when it can, else lets
+ * the loaders render and keeps the page. Anything unusual (not a plain GET of the page,
+ * nobody signed in, an API key, no team) goes straight to the loaders, which answer it as
+ * they always do.
  */
 export const pageCache: MiddlewareFunction<Response> = async ({ request }, next) => {
   const pages = store();
-  const url = new URL(request.url);
-  if (!pages || request.method !== "GET" || url.pathname.endsWith(".data")) return next();
+  if (!pages || request.method !== "GET" || new URL(request.url).pathname.endsWith(".data")) return next();
   const signedIn = await getSignedIn(request);
   if (!signedIn || signedIn.via !== "session") return next();
-  const teams = await membershipsOf(signedIn.user.id);
-  const team = teams.find((t) => t.teamId === signedIn.activeTeamId) ?? teams[0];
-  if (!team) return next();
   // Read before rendering: a change committed meanwhile moves the version past this key.
-  const version = await teamVersion(team.teamId);
-  const key = JSON.stringify([version, team.teamId, team.role, signedIn.user.id, signedIn.user.name, teams.map((t) => [t.teamId, t.teamName, t.role]), url.pathname + url.search]);
+  const reader = { userId: signedIn.user.id, userName: signedIn.user.name, activeTeamId: signedIn.activeTeamId, teams: await readerTeams(signedIn.user.id) };
+  const key = pageKey(reader, pathWithSearch(request.url));
+  if (!key) return next();
   const cached = pages.get(key);
-  if (cached) return answer(request, cached);
+  if (cached) {
+    // Uncompressed here: server.js answers hits itself, with the kept compressed bytes.
+    return new Response(new Uint8Array(cached.html), { status: 200, headers: pageHeaders(cached, isSecureRequest(request)) });
+  }
 
   const response = await next();
   response.headers.set("X-Page-Cache", "miss");
-  const nonce = nonceOf(response);
   const contentType = response.headers.get("content-type") ?? "";
-  if (response.status !== 200 || !response.body || !nonce || !contentType.startsWith("text/html") || response.headers.has("set-cookie")) return response;
+  if (response.status !== 200 || !response.body || !contentType.startsWith("text/html") || response.headers.has("set-cookie")) return response;
   // One branch to the reader as it streams, one collected for the cache.
   const [toReader, toCache] = response.body.tee();
   const log = currentRequestLog();
   void new Response(toCache)
     .arrayBuffer()
-    .then((html) => {
+    .then(async (html) => {
       // A page whose rendering failed part-way is sent as it is, never kept.
       if (log?.renderFailed) return;
-      pages.set(key, { parts: splitAtNonce(Buffer.from(html), nonce), status: 200, contentType });
+      pages.set(key, await keep(Buffer.from(html), contentType));
     })
     .catch(() => {});
   return new Response(toReader, { status: response.status, statusText: response.statusText, headers: response.headers });
 };
+
+/**
+ * server.js's way in: a cached page for a plain GET with a session cookie, looked up before
+ * React Router builds a request, or null to let the framework answer (and keep the page
+ * through `pageCache`).
+ */
+export async function cachedPageAnswer(request: { url: string; cookie: string; secure: boolean; encoding: PageEncoding }): Promise<{ headers: Record<string, string>; body: Buffer } | null> {
+  const pages = store();
+  if (!pages) return null;
+  const token = await signedSessionToken(request.cookie);
+  const reader = token ? await readerOfSession(token) : null;
+  if (reader) noteSignedIn(reader.userId, "session");
+  const key = reader ? pageKey(reader, pathWithSearch(request.url)) : null;
+  const cached = key ? pages.get(key) : undefined;
+  if (!cached) return null;
+  const body = request.encoding === "identity" ? cached.html : cached[request.encoding];
+  return { body, headers: { ...pageHeaders(cached, request.secure), ...(request.encoding === "identity" ? {} : { "Content-Encoding": request.encoding }) } };
+}
+
+interface ManifestRoute {
+  id: string;
+  parentId?: string;
+  path?: string;
+  module: { middleware?: unknown[] };
+}
+
+/** The URL patterns (e.g. `/sheets/:number`) of the routes that use `pageCache`, from the server build's manifest. */
+export function cachedPagePatterns(manifest: Record<string, ManifestRoute | undefined>): string[] {
+  const fullPath = (route: ManifestRoute | undefined): string => (route ? `${fullPath(route.parentId ? manifest[route.parentId] : undefined)}/${route.path ?? ""}` : "");
+  return Object.values(manifest)
+    .filter((route): route is ManifestRoute => Boolean(route?.module.middleware?.includes(pageCache)))
+    .map((route) => fullPath(route).replace(/\/+/g, "/").replace(/(.)\/$/, "$1"));
+}
