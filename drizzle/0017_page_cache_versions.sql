@@ -16,7 +16,7 @@ CREATE FUNCTION sinewright_bump_team_version(team text) RETURNS void LANGUAGE sq
 $$;
 --> statement-breakpoint
 -- TG_ARGV[0] says how a row names its team: 'team' (the column in TG_ARGV[1] holds the
--- team id), 'sheet', 'revision' or 'document' (it holds that row's id), or 'user' (every
+-- team id), 'revision' (it holds a revision's id), or 'user' (every
 -- team the user belongs to: a user's name shows on every page of their teams).
 CREATE FUNCTION sinewright_content_changed() RETURNS trigger LANGUAGE plpgsql AS $$
 DECLARE
@@ -26,9 +26,7 @@ BEGIN
   IF ref IS NULL THEN RETURN NULL; END IF;
   CASE TG_ARGV[0]
     WHEN 'team' THEN team := ref;
-    WHEN 'sheet' THEN SELECT s.team_id INTO team FROM calc_sheet s WHERE s.id = ref;
     WHEN 'revision' THEN SELECT r.team_id INTO team FROM sheet_revision r WHERE r.id = ref;
-    WHEN 'document' THEN SELECT d.team_id INTO team FROM project_document d WHERE d.id = ref;
     WHEN 'user' THEN
       PERFORM sinewright_bump_team_version(m.organization_id) FROM member m WHERE m.user_id = ref;
       RETURN NULL;
@@ -45,13 +43,11 @@ DECLARE
     ['member', 'team', 'organization_id'],
     ['invitation', 'team', 'organization_id'],
     ['user', 'user', 'id'],
-    ['api_key', 'team', 'team_id'],
     ['audit_event', 'team', 'team_id'],
     ['project', 'team', 'team_id'],
     ['calc_sheet', 'team', 'team_id'],
     ['sheet_revision', 'team', 'team_id'],
     ['revision_block', 'team', 'team_id'],
-    ['sheet_draft', 'sheet', 'sheet_id'],
     ['check_request', 'team', 'team_id'],
     ['review_comment', 'team', 'team_id'],
     ['check_value', 'team', 'team_id'],
@@ -60,7 +56,6 @@ DECLARE
     ['project_document', 'team', 'team_id'],
     ['document_version', 'team', 'team_id'],
     ['document_citation', 'team', 'team_id'],
-    ['document_draft', 'document', 'document_id'],
     ['attachment', 'team', 'team_id'],
     ['revision_attachment', 'revision', 'revision_id']
   ];
