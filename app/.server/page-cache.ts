@@ -3,7 +3,7 @@
  * changes (a sheet revision, a project document). A page is kept, per server, under
  * everything it depends on: who reads it (user, name, team, role, their teams) and the
  * team's content version, which database triggers move whenever any row a page shows
- * is written (migration 0017). The version is read before the page is rendered, so a
+ * is written (migrations 0017 and 0019). The version is read before the page is rendered, so a
  * cached page is never older than its key says; any write makes the next view render
  * afresh, on every server, with nothing to invalidate by hand.
  *

@@ -184,6 +184,24 @@ describe.each(engines)("search contract on %s", (_name, engineOf) => {
   });
 });
 
+describe.each(engines.slice(0, 2))("values named by their input on %s", (_name, engineOf) => {
+  const numbers = async (query: string) => (await engineOf().search(larkA.teamId, query)).hits.map((h) => h.sheetNumber).sort();
+
+  it("reads \"fsw 10 kHz\" as the sheets whose fsw is 10 kHz, not every sheet holding 10, kHz and fsw somewhere", async () => {
+    // The output filter has fsw 20 kHz with 10 uF and 10 ohm: all three words, but not that value.
+    expect(await numbers("fsw 10 kHz")).toEqual([ids.lowCorner!.number]);
+    expect(await numbers("fsw 10000 Hz")).toEqual([ids.lowCorner!.number]);
+    expect(await numbers("rLoad 10 ohm")).toEqual([ids.outputFilter!.number, ids.lowCorner!.number].sort());
+    expect(await numbers("c 10000 nF")).toEqual([ids.outputFilter!.number]);
+    expect(await numbers("lc-filter 20 uF")).toEqual([ids.groundPower!.number]);
+  });
+
+  it("answers with the words as typed when no sheet holds the value under that name", async () => {
+    // No fsw is 20 V; the words fsw, 20 and V are all in the output filter sheet.
+    expect(await numbers("fsw 20 V")).toContain(ids.outputFilter!.number);
+  });
+});
+
 describe("search through the app", () => {
   it("answers from Meilisearch when it is configured", async () => {
     const result = await search(larkA.teamId, "stepped wave");

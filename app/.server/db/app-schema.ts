@@ -401,6 +401,14 @@ export const searchDocument = pgTable(
       .generatedAlwaysAs(
         sql`setweight(to_tsvector('sinewright'::regconfig, title), 'A') || setweight(to_tsvector('sinewright'::regconfig, keywords), 'B') || setweight(to_tsvector('sinewright'::regconfig, sinewright_words_once(body)), 'C') || setweight(to_tsvector('sinewright'::regconfig, block_values), 'D')`,
       ),
+    /**
+     * Title and keywords alone, weighted as in `search`: the few places a word makes a sheet
+     * rank high. A query of common words is ranked within the sheets holding all its words
+     * here first (app/.server/search/postgres.ts), a far shorter list than every match.
+     */
+    searchHead: tsvector("search_head")
+      .notNull()
+      .generatedAlwaysAs(sql`setweight(to_tsvector('sinewright'::regconfig, title), 'A') || setweight(to_tsvector('sinewright'::regconfig, keywords), 'B')`),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull(),
   },
   (t) => [

@@ -5,7 +5,9 @@
  * page it returns; elsewhere the GIN index finds the matches and ts_rank orders them.
  */
 import { eq, sql, type SQL } from "drizzle-orm";
-import { HIT_START, HIT_STOP, markedToSegments, matchedBlockLine } from "~/lib/search/document-text";
+import { calculators } from "~/lib/calc/registry";
+import { readQuantity } from "~/lib/calc/units";
+import { HIT_START, HIT_STOP, markedToSegments, matchedBlockLine, scopeValueWords } from "~/lib/search/document-text";
 import { db, type Database } from "../db/client";
 import { searchDocument } from "../db/schema";
 import { upsertSearchDocument } from "./indexer";
@@ -20,6 +22,13 @@ function snippetText(row: Pick<Row, "headline" | "block_values">, query: string)
 
 /** `'dc-link' <-> 'dc' <-> 'link'` in a tsquery's text form. */
 const COMPOUND_PHRASE = `('[^' ]+-[^' ]+')( <-> '[^' ]+')+`;
+
+let valueScopes: Set<string> | undefined;
+/** Whether a word names a calculator, or an input or result of one: a scope for a value ("vdc", "lc-filter"). */
+function isValueScope(word: string): boolean {
+  valueScopes ??= new Set(calculators.flatMap((c) => [c.id, ...c.inputs.map((i) => i.key), ...c.outputs.map((o) => o.key)]).map((w) => w.toLowerCase()));
+  return valueScopes.has(word.toLowerCase());
+}
 
 /** Rows read in the index's rank order and re-ranked with ts_rank beyond the page asked for. */
 const RANK_WINDOW = 100;
@@ -79,36 +88,38 @@ export class PostgresSearchEngine implements SearchEngine {
   }
 
   async search(teamId: string, query: string, filters: SearchFilters = {}): Promise<SearchResult> {
+    const text = query.trim();
+    // "vdc 400 V" means the sheets whose vdc is 400 V: matched through the one scoped word the
+    // index holds for it. Should that find nothing (a value spelled in a way the words do not
+    // cover), the words as typed answer.
+    const scoped = scopeValueWords(text, isValueScope, readQuantity);
+    const result = await this.searchMatching(teamId, text, scoped, filters);
+    return result.hits.length === 0 && scoped !== text ? this.searchMatching(teamId, text, text, filters) : result;
+  }
+
+  private async searchMatching(teamId: string, text: string, matching: string, filters: SearchFilters): Promise<SearchResult> {
     const { limit, offset } = pageOf(filters);
     const where = sql.join(filterConditions(teamId, filters), sql` and `);
-    const text = query.trim();
     // A hyphenated word ("dc-link", "quasi-square") parses as the whole word followed by its
     // parts as a phrase; the whole word is indexed wherever the parts are, so it alone finds
     // the same sheets without the costly position checks of a phrase. Quoted phrases are
     // left alone: their words chain on with the same operator.
     // Matching and the index's order use that form; the scores shown, as typed.
     const ranking = sql`websearch_to_tsquery('sinewright', ${text})`;
-    const tsquery = text.includes('"') ? sql`(select ${ranking})` : sql`(select regexp_replace(${ranking}::text, ${COMPOUND_PHRASE}, ${"\\1"}, 'g')::tsquery)`;
+    const matched = sql`websearch_to_tsquery('sinewright', ${matching})`;
+    const tsquery = text.includes('"') ? sql`(select ${matched})` : sql`(select regexp_replace(${matched}::text, ${COMPOUND_PHRASE}, ${"\\1"}, 'g')::tsquery)`;
     const columns = sql`d.id, d.kind, d.number, d.title, d.project_code, d.state, d.revision_label`;
-    let page: SQL;
-    let matches: SQL;
+    let rows: Row[];
+    let counted: { total: number; totalIsEstimate: boolean };
     if (!text) {
       // No words: the newest first, opening lines as the snippet.
-      page = sql`select ${columns}, 0::float8 as score, left(d.body, 200) as headline from search_document d where ${where} order by d.updated_at desc, d.id limit ${limit} offset ${offset}`;
-      matches = sql`select 1 from search_document d where ${where}`;
+      const page = sql`select ${columns}, 0::float8 as score, left(d.body, 200) as headline from search_document d where ${where} order by d.updated_at desc, d.id limit ${limit} offset ${offset}`;
+      rows = (await this.database.execute<Row>(page)).rows;
+      counted = await this.countMatches(text, rows, sql`select 1 from search_document d where ${where}`, 0);
     } else {
-      // With the rank-order index, read the first RANK_WINDOW rows in its order (it scores inside
-      // the index, never visiting the table), then order those by ts_rank, so scores are the same
-      // as without the index. Its own score equals ts_rank for one word and differs a little for
-      // several, hence the window. Without the index: ts_rank over every match.
-      const candidates = (await this.useRankOrderIndex())
-        ? sql`select d.* from search_document d, ${tsquery} as q(query)
-              where ${where} and d.search @@ q.query
-              order by d.search <=> q.query
-              limit ${offset + limit + RANK_WINDOW}`
-        : sql`select d.* from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
+      const matches = sql`select 1 from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
       // Snippets only for the page: ts_headline re-parses the text, so it runs on the few rows shown.
-      page = sql`
+      const pageOf = (candidates: SQL) => sql`
         select p.*, ts_headline('sinewright', p.body, ${ranking}, ${HEADLINE_OPTIONS}) as headline
         from (
           select c.id, c.kind, c.number, c.title, c.project_code, c.state, c.revision_label, c.body, c.block_values,
@@ -118,12 +129,42 @@ export class PostgresSearchEngine implements SearchEngine {
           limit ${limit} offset ${offset}
         ) p
         order by p.score desc, p.id`;
-      matches = sql`select 1 from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
+      const window = offset + limit + RANK_WINDOW;
+      if (await this.useRankOrderIndex()) {
+        // With the rank-order index, read the first RANK_WINDOW rows in its order (it scores inside
+        // the index, never visiting the table), then order those by ts_rank, so scores are the same
+        // as without the index. Its own score equals ts_rank for one word and differs a little for
+        // several, hence the window.
+        // First the head tier: sheets holding every word in their title or keywords, where a word
+        // weighs most. A query of common words matches most sheets and ranking them all costs tens
+        // of milliseconds; its best-ranked sheets are these, and the head index lists far fewer.
+        // When the tier cannot fill the page (rare words, values, a page far down), every match.
+        const head = await this.database.execute<Row>(
+          pageOf(sql`select d.* from search_document d, ${tsquery} as q(query)
+                 where ${where} and d.search_head @@ q.query and d.search @@ q.query
+                 order by d.search_head <=> q.query
+                 limit ${window}`),
+        );
+        const headFills = (head.rows[0]?.candidates ?? 0) >= offset + limit;
+        rows = headFills
+          ? head.rows
+          : (
+              await this.database.execute<Row>(
+                pageOf(sql`select d.* from search_document d, ${tsquery} as q(query)
+                       where ${where} and d.search @@ q.query
+                       order by d.search <=> q.query
+                       limit ${window}`),
+              )
+            ).rows;
+        counted = await this.countMatches(text, rows, matches, headFills ? Number.POSITIVE_INFINITY : window);
+      } else {
+        // Without the index: ts_rank over every match.
+        rows = (await this.database.execute<Row>(pageOf(sql`select d.* from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`))).rows;
+        counted = await this.countMatches(text, rows, matches, Number.NaN);
+      }
     }
-    const rows = await this.database.execute<Row>(page);
-    const counted = await this.countMatches(text, rows.rows, matches, offset + limit + RANK_WINDOW);
     return {
-      hits: rows.rows.map((r) => ({
+      hits: rows.map((r) => ({
         id: r.id,
         kind: r.kind,
         sheetNumber: r.number,
@@ -141,14 +182,14 @@ export class PostgresSearchEngine implements SearchEngine {
 
   /**
    * How many match. Counting every match of a common word costs as much as ranking them all,
-   * so: exact when the ranked rows were all the matches, else PostgreSQL's own estimate
+   * so: exact when the ranked rows were all the matches (fewer than the window read; without the
+   * rank-order index `window` is NaN and every match was ranked), else PostgreSQL's own estimate
    * (as Meilisearch gives one); with no words, an exact count up to TOTAL_CAP.
    */
   private async countMatches(text: string, page: Row[], matches: SQL, window: number): Promise<{ total: number; totalIsEstimate: boolean }> {
     const candidates = page[0]?.candidates;
     if (text && candidates !== undefined) {
-      const complete = !(await this.useRankOrderIndex()) || candidates < window;
-      if (complete) return { total: candidates, totalIsEstimate: false };
+      if (Number.isNaN(window) || candidates < window) return { total: candidates, totalIsEstimate: false };
       const plan = await this.database.execute<{ "QUERY PLAN": [{ Plan: { "Plan Rows": number } }] }>(sql`explain (format json) ${matches}`);
       const estimate = Math.round(plan.rows[0]?.["QUERY PLAN"][0]?.Plan["Plan Rows"] ?? 0);
       return { total: Math.max(estimate, candidates), totalIsEstimate: true };

@@ -19,7 +19,7 @@ export async function reindexSearch(database: Database, log: (line: string) => v
   for (;;) {
     const rows = await database.select().from(searchDocument).where(sql`${searchDocument.id} > ${after}`).orderBy(asc(searchDocument.id)).limit(1000);
     if (rows.length === 0) break;
-    await meili.indexMany(rows.map(({ search: _vector, ...doc }) => doc));
+    await meili.indexMany(rows.map(({ search: _vector, searchHead: _head, ...doc }) => doc));
     sent += rows.length;
     after = rows.at(-1)!.id;
     log(`sent ${sent} documents to Meilisearch`);

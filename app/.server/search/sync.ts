@@ -18,7 +18,7 @@ export async function deliverSearchCopy(tx: Tx, payload: { id: string }): Promis
   await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${`search-copy:${payload.id}`}))`);
   const [row] = await tx.select().from(searchDocument).where(eq(searchDocument.id, payload.id));
   if (row) {
-    const { search: _vector, ...doc } = row;
+    const { search: _vector, searchHead: _head, ...doc } = row;
     await meili.index(doc);
   } else {
     await meili.remove(payload.id);

@@ -2,7 +2,7 @@ import type { SnippetSegment } from "~/lib/search/document-text";
 import type { searchDocument } from "../db/schema";
 
 /** One row of `search_document`: what every engine indexes (the tsvector is PostgreSQL's own). */
-export type SearchDocument = Omit<typeof searchDocument.$inferSelect, "search">;
+export type SearchDocument = Omit<typeof searchDocument.$inferSelect, "search" | "searchHead">;
 
 export type SearchKind = "sheet" | "document";
 

@@ -206,6 +206,25 @@ function toSi(quantity: Unit, dimension: Dimension): number {
   return Number.isFinite(value) ? Number(value.toPrecision(15)) : value;
 }
 
+/**
+ * Any quantity with a unit, as its value in our SI unit for its dimension:
+ * "20 kHz" → { value: 20000, unit: "Hz" }. Undefined for plain numbers, unknown units and
+ * units outside our dimensions. For search, where no input spec says what is expected.
+ */
+export function readQuantity(text: string): { value: number; unit: string } | undefined {
+  const cleaned = normaliseUnitText(text);
+  if (!/^[-+]?\d/.test(cleaned) || cleaned.length > 40) return undefined;
+  try {
+    const quantity = instance.unit(cleaned);
+    const dimension = dimensionOf(quantity);
+    if (!dimension || dimension === "dimensionless") return undefined;
+    const value = toSi(quantity, dimension);
+    return Number.isFinite(value) ? { value, unit: SI_UNIT[dimension] } : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
 /** How a quantity reads back in an error message ("5 V", "0.2 rad"). */
 function describe(quantity: Unit | number): string {
   if (typeof quantity === "number") return formatQuantity(quantity, "", { digits: 6 });

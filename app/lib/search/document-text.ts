@@ -90,6 +90,46 @@ function isScalar(value: unknown): value is { value: number; unit: string; displ
  */
 export const SPELLINGS_MARK = "\u001f";
 
+/** A scope as it prefixes a value word: the input, result or calculator id, lower-case, letters and digits only. */
+function scopePrefix(scope: string): string {
+  return scope.toLowerCase().replace(/[^a-z0-9]/g, "");
+}
+
+/**
+ * One value as a single search word scoped to the input, result or calculator it belongs to:
+ * ("vdc", 400, "V") → "vdc400v"; ("lc-filter", 1e-5, "F") → "lcfilter10uf". PostgreSQL keeps
+ * such a word whole, so "vdc 400 V" can match exactly the sheets where vdc is 400 V, through
+ * one short index list instead of three long ones ("vdc", "400", "v").
+ */
+export function scopedValueWord(scope: string, value: number, unit: string): string | undefined {
+  if (!Number.isFinite(value) || !unit || unit === "%") return undefined;
+  let spelled = formatQuantity(value, unit, { digits: 3, trimZeros: true }).toLowerCase().replace(/\s+/g, "");
+  for (const [symbol, letters] of Object.entries(ASCII_PREFIX)) spelled = spelled.replaceAll(symbol.toLowerCase(), letters);
+  const prefix = scopePrefix(scope);
+  return prefix ? `${prefix}${spelled}` : undefined;
+}
+
+/**
+ * The query with each "<scope> <value with unit>" written as its scoped value word
+ * ("fsw 20 kHz" → "fsw20khz"), where the scope is an input, result or calculator id.
+ * Quoted queries are left as typed. `read` turns "20 kHz" into its SI value and unit.
+ */
+export function scopeValueWords(query: string, isScope: (word: string) => boolean, read: (text: string) => { value: number; unit: string } | undefined): string {
+  if (query.includes('"')) return query;
+  return query.replace(/(^|\s)([A-Za-z][\w-]*)\s+([-+]?\d+(?:\.\d+)?\s*[A-Za-z\u00b5\u03bc\u03a9\u2126\u00b0]+)(?=\s|$)/g, (whole, space: string, scope: string, quantity: string) => {
+    if (!isScope(scope)) return whole;
+    const read_ = read(quantity);
+    const word = read_ && scopedValueWord(scope, read_.value, read_.unit);
+    return word ? `${space}${word}` : whole;
+  });
+}
+
+/** A value's spellings and its scoped words ("vdc400v", "quasisquare400v"). */
+function scopedAndSpelled(scopes: string[], value: number, unit: string): string[] {
+  const scoped = scopes.map((scope) => scopedValueWord(scope, value, unit)).filter((word): word is string => Boolean(word));
+  return [...quantitySpellings(value, unit), ...scoped];
+}
+
 /**
  * One line per block: "qs1 · Quasi-square (quasi-square): vdc 48 V, alpha 23 deg →
  * thd 29.01 %", then SPELLINGS_MARK and each value in the spellings people type.
@@ -104,7 +144,7 @@ export function blockValuesText(blocks: IndexedBlock[], calculatorById: (id: str
       for (const [name, typed] of Object.entries(block.inputs)) {
         const spec = calculator?.inputs.find((i) => i.key === name);
         const parsed = block.parsedInputs?.[name];
-        const computed = spec?.kind === "quantity" && typeof parsed === "number" ? quantitySpellings(parsed, SI_UNIT[spec.dimension]) : [];
+        const computed = spec?.kind === "quantity" && typeof parsed === "number" ? scopedAndSpelled([name, block.calculator], parsed, SI_UNIT[spec.dimension]) : [];
         if (typeof typed === "string" && !typed.startsWith("=")) shown.push(`${name} ${typed}`);
         else if (spec?.kind === "quantity" && typeof parsed === "number") shown.push(`${name} ${formatQuantity(parsed, SI_UNIT[spec.dimension])}`);
         spellings.push(...computed);
@@ -113,7 +153,7 @@ export function blockValuesText(blocks: IndexedBlock[], calculatorById: (id: str
       for (const [name, result] of Object.entries(block.results ?? {})) {
         if (!isScalar(result)) continue;
         results.push(`${name} ${result.display}`);
-        spellings.push(...quantitySpellings(result.value, result.unit));
+        spellings.push(...scopedAndSpelled([name, block.calculator], result.value, result.unit));
       }
       const head = `${block.blockId} · ${calculator?.title ?? block.calculator} (${block.calculator}): ${shown.join(", ")}${results.length ? ` → ${results.join(", ")}` : ""}`;
       return `${head}${SPELLINGS_MARK}${spellings.join(" ")}`;

@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { getCalculator } from "~/lib/calc/registry";
 import { prepareSheet } from "~/lib/sheets/pipeline";
-import { blockValuesText, HIT_START, HIT_STOP, markedToSegments, proseText, matchedBlockLine, quantitySpellings, shownBlockValues, SPELLINGS_MARK } from "~/lib/search/document-text";
+import { readQuantity } from "~/lib/calc/units";
+import { blockValuesText, HIT_START, HIT_STOP, markedToSegments, proseText, matchedBlockLine, quantitySpellings, scopedValueWord, scopeValueWords, shownBlockValues, SPELLINGS_MARK } from "~/lib/search/document-text";
 
 describe("quantity spellings", () => {
   it("spells 20 kHz the ways engineers type it", () => {
@@ -16,6 +17,37 @@ describe("quantity spellings", () => {
     const spellings = quantitySpellings(23, "deg");
     expect(spellings).toContain("23°");
     expect(spellings.some((s) => s.includes("k"))).toBe(false);
+  });
+});
+
+describe("values named by their input or calculator", () => {
+  const scopes = new Set(["vdc", "fsw", "c", "lc-filter", "quasi-square"]);
+  const rewrite = (query: string) => scopeValueWords(query, (word) => scopes.has(word.toLowerCase()), readQuantity);
+
+  it("writes a named value as one word, the same however the value is typed", () => {
+    expect(scopedValueWord("vdc", 400, "V")).toBe("vdc400v");
+    expect(scopedValueWord("lc-filter", 1e-5, "F")).toBe("lcfilter10uf");
+    expect(rewrite("vdc 400 V")).toBe("vdc400v");
+    expect(rewrite("fsw 20 kHz")).toBe(rewrite("fsw 20000 Hz"));
+    expect(rewrite("c 4.7 µF")).toBe("c4.7uf");
+    expect(rewrite("c 4700 nF")).toBe("c4.7uf");
+  });
+
+  it("leaves alone words that name nothing, values without a unit and quoted queries", () => {
+    expect(rewrite("filter 10 uF")).toBe("filter 10 uF");
+    expect(rewrite("vdc 400")).toBe("vdc 400");
+    expect(rewrite('"vdc 400 V"')).toBe('"vdc 400 V"');
+    expect(rewrite("pump inverter vdc 400V output")).toBe("pump inverter vdc400v output");
+  });
+
+  it("puts each input's and result's named words in the block's search text", () => {
+    const text = blockValuesText(
+      [{ blockId: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg" }, parsedInputs: { vdc: 48, alpha: 23 }, results: { v1Rms: { value: 41.7, unit: "V", display: "41.7 V" } } }],
+      getCalculator,
+    );
+    expect(text).toContain("vdc48v");
+    expect(text).toContain("quasisquare48v");
+    expect(text).toContain("v1rms41.7v");
   });
 });
 

@@ -1,0 +1,1 @@
+ALTER TABLE "search_document" ADD COLUMN "search_head" "tsvector" GENERATED ALWAYS AS (setweight(to_tsvector('sinewright'::regconfig, title), 'A') || setweight(to_tsvector('sinewright'::regconfig, keywords), 'B')) STORED NOT NULL;
