@@ -5,8 +5,12 @@ describe("search API and page", () => {
   it("answers anonymous callers 401 and finds demo sheets by value and calculator for members", async () => {
     expect((await new Visitor().get("/api/v1/search?q=filter")).status).toBe(401);
     const viewer = await new Visitor().signIn("viewer@example.com");
-    const byValue = await (await viewer.get(`/api/v1/search?q=${encodeURIComponent("fsw 20 kHz")}`)).json();
+    const byValue = await (await viewer.get(`/api/v1/search?q=${encodeURIComponent("fsw 40 kHz")}`)).json();
     expect(byValue.total).toBeGreaterThan(0);
+    // A value named by its input means that input's value: the bridge sheet switches at 20 kHz, the filter at 40 kHz.
+    const at20 = await (await viewer.get(`/api/v1/search?q=${encodeURIComponent("fsw 20 kHz")}`)).json();
+    expect(at20.hits.map((h: { title: string }) => h.title)).toContain("Bridge switches: IGBT and SiC MOSFET losses");
+    expect(at20.hits.map((h: { title: string }) => h.title)).not.toContain("Output LC filter and bench harmonics");
     expect(byValue.hits.map((h: { title: string }) => h.title)).toContain("Output LC filter and bench harmonics");
     const hit = byValue.hits.find((h: { title: string }) => h.title === "Output LC filter and bench harmonics");
     expect(hit.snippet.some((part: { hit: boolean }) => part.hit)).toBe(true);
