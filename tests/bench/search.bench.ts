@@ -14,7 +14,7 @@
 import { drizzle } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import { getCalculator } from "../../app/lib/calc/registry";
-import { blockValuesText, type IndexedBlock } from "../../app/lib/search/document-text";
+import { blockValuesText, SEARCH_TEXT_VERSION, type IndexedBlock } from "../../app/lib/search/document-text";
 import * as schema from "../../app/.server/db/schema";
 import { migrateDatabase } from "../../app/.server/db/migrate";
 import { hasRankOrderIndex, PostgresSearchEngine } from "../../app/.server/search/postgres";
@@ -119,10 +119,10 @@ async function seedSheets(pool: pg.Pool, teamId: string) {
     const tuples = rows.map((r, i) => {
       values.push(r.id, teamId, r.number, r.title, r.tags, r.calculators, r.state, r.keywords, r.body, r.blockValues);
       const p = i * 10;
-      return `($${p + 1}, 'sheet', $${p + 2}, $${p + 3}, $${p + 4}, $${p + 5}, $${p + 6}, $${p + 7}, 'A', $${p + 8}, $${p + 9}, $${p + 10}, now())`;
+      return `($${p + 1}, 'sheet', $${p + 2}, $${p + 3}, $${p + 4}, $${p + 5}, $${p + 6}, $${p + 7}, 'A', $${p + 8}, $${p + 9}, $${p + 10}, now(), ${SEARCH_TEXT_VERSION})`;
     });
     await pool.query(
-      `insert into search_document (id, kind, team_id, number, title, tags, calculators, state, revision_label, keywords, body, block_values, updated_at) values ${tuples.join(", ")}`,
+      `insert into search_document (id, kind, team_id, number, title, tags, calculators, state, revision_label, keywords, body, block_values, updated_at, text_version) values ${tuples.join(", ")}`,
       values,
     );
   }

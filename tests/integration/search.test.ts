@@ -13,7 +13,8 @@ process.env.MEILI_INDEX = `contract_${Math.random().toString(36).slice(2, 8)}`;
 afterAll(() => fake.close());
 
 const { db } = await import("../../app/.server/db/client");
-const { member, organization, outbox, project } = await import("../../app/.server/db/schema");
+const { member, organization, outbox, project, searchDocument } = await import("../../app/.server/db/schema");
+const { SEARCH_TEXT_VERSION } = await import("../../app/lib/search/document-text");
 const { auth } = await import("../../app/.server/auth");
 const { createSheet, saveRevision, updateSheetDetails } = await import("../../app/.server/sheets");
 const { stampRevision, submitForCheck } = await import("../../app/.server/review");
@@ -21,8 +22,8 @@ const { drainOutbox } = await import("../../app/.server/mail/outbox");
 const { search, findBlocks, BlockQueryError, FALLBACK_NOTICE } = await import("../../app/.server/search");
 const { PostgresSearchEngine } = await import("../../app/.server/search/postgres");
 const { meilisearchEngine } = await import("../../app/.server/search/engine");
-const { reindexSearch } = await import("../../app/.server/search/reindex");
-const { and, eq, isNull } = await import("drizzle-orm");
+const { rebuildOutdatedSearchText, reindexSearch } = await import("../../app/.server/search/reindex");
+const { and, eq, isNull, sql } = await import("drizzle-orm");
 type Member = import("../../app/.server/access").Member;
 type SearchEngine = import("../../app/.server/search/types").SearchEngine;
 
@@ -199,6 +200,24 @@ describe.each(engines.slice(0, 2))("values named by their input on %s", (_name, 
   it("answers with the words as typed when no sheet holds the value under that name", async () => {
     // No fsw is 20 V; the words fsw, 20 and V are all in the output filter sheet.
     expect(await numbers("fsw 20 V")).toContain(ids.outputFilter!.number);
+  });
+});
+
+describe("search rows from an older version", () => {
+  it("are rebuilt at start, and until then values are found by the words as typed", async () => {
+    const t = await team("Upgraded Drives");
+    const made = await sheet(t, { title: "Battery stage before the upgrade", source: `<QuasiSquare id="qs1" vdc="36 V" alpha="23 deg" />\n` });
+    // As an older version wrote it: no named values, an older text version.
+    await db().execute(sql`update search_document set text_version = 1, block_values = regexp_replace(block_values, '\\m(vdc|alpha|quasisquare)[0-9.]+\\S*', '', 'g') where sheet_id = ${made.id}`);
+    const engine = new PostgresSearchEngine();
+    expect((await engine.search(t.teamId, "vdc 36 V")).hits.map((h) => h.sheetNumber)).toEqual([made.number]);
+    expect(await rebuildOutdatedSearchText(() => {})).toBeGreaterThan(0);
+    const [row] = await db().select().from(searchDocument).where(eq(searchDocument.sheetId, made.id));
+    expect(row!.textVersion).toBe(SEARCH_TEXT_VERSION);
+    expect(row!.blockValues).toContain("vdc36v");
+    expect((await engine.search(t.teamId, "vdc 36 V")).hits.map((h) => h.sheetNumber)).toEqual([made.number]);
+    // Nothing older is left: a second start rebuilds nothing.
+    expect(await rebuildOutdatedSearchText(() => {})).toBe(0);
   });
 });
 

@@ -406,6 +406,8 @@ export const searchDocument = pgTable(
      * rank high. A query of common words is ranked within the sheets holding all its words
      * here first (app/.server/search/postgres.ts), a far shorter list than every match.
      */
+    /** The SEARCH_TEXT_VERSION the row was written with; servers rebuild older rows at start. */
+    textVersion: integer("text_version").notNull().default(1),
     searchHead: tsvector("search_head")
       .notNull()
       .generatedAlwaysAs(sql`setweight(to_tsvector('sinewright'::regconfig, title), 'A') || setweight(to_tsvector('sinewright'::regconfig, keywords), 'B')`),

@@ -22,6 +22,12 @@ export function db(): Database {
   return database;
 }
 
+/** The pool itself, for what needs one connection throughout (a session advisory lock). */
+export function dbPool(): pg.Pool {
+  db();
+  return pool!;
+}
+
 export async function closeDb(): Promise<void> {
   const current = pool;
   pool = undefined;

@@ -7,7 +7,7 @@
 import { asc, eq, sql } from "drizzle-orm";
 import type { Root as HastRoot } from "hast";
 import { getCalculator } from "~/lib/calc/registry";
-import { blockValuesText, proseText, type IndexedBlock } from "~/lib/search/document-text";
+import { blockValuesText, proseText, SEARCH_TEXT_VERSION, type IndexedBlock } from "~/lib/search/document-text";
 import { config } from "../config";
 import type { Database } from "../db/client";
 import { calcSheet, documentCitation, documentVersion, outbox, project, projectDocument, revisionBlock, searchDocument, sheetRevision } from "../db/schema";
@@ -56,6 +56,7 @@ export async function buildSheetDocument(tx: Tx, sheetId: string): Promise<Searc
   return {
     id: s.id,
     kind: "sheet",
+    textVersion: SEARCH_TEXT_VERSION,
     teamId: s.teamId,
     sheetId: s.id,
     number: s.number,
@@ -101,6 +102,7 @@ export async function buildProjectDocument(tx: Tx, documentId: string): Promise<
   return {
     id: d.id,
     kind: "document",
+    textVersion: SEARCH_TEXT_VERSION,
     teamId: d.teamId,
     sheetId: null,
     number: d.number,

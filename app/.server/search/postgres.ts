@@ -4,10 +4,10 @@
  * hands back rows already in rank order, so a query of common words ranks only the
  * page it returns; elsewhere the GIN index finds the matches and ts_rank orders them.
  */
-import { eq, sql, type SQL } from "drizzle-orm";
+import { and, eq, lt, sql, type SQL } from "drizzle-orm";
 import { calculators } from "~/lib/calc/registry";
 import { readQuantity } from "~/lib/calc/units";
-import { HIT_START, HIT_STOP, markedToSegments, matchedBlockLine, scopeValueWords } from "~/lib/search/document-text";
+import { HIT_START, HIT_STOP, markedToSegments, matchedBlockLine, scopeValueWords, SEARCH_TEXT_VERSION } from "~/lib/search/document-text";
 import { db, type Database } from "../db/client";
 import { searchDocument } from "../db/schema";
 import { upsertSearchDocument } from "./indexer";
@@ -22,6 +22,9 @@ function snippetText(row: Pick<Row, "headline" | "block_values">, query: string)
 
 /** `'dc-link' <-> 'dc' <-> 'link'` in a tsquery's text form. */
 const COMPOUND_PHRASE = `('[^' ]+-[^' ]+')( <-> '[^' ]+')+`;
+
+/** Teams whose search rows were all current when last asked; rows are only ever written current. */
+const currentTextTeams = new Set<string>();
 
 let valueScopes: Set<string> | undefined;
 /** Whether a word names a calculator, or an input or result of one: a scope for a value ("vdc", "lc-filter"). */
@@ -92,9 +95,21 @@ export class PostgresSearchEngine implements SearchEngine {
     // "vdc 400 V" means the sheets whose vdc is 400 V: matched through the one scoped word the
     // index holds for it. Should that find nothing (a value spelled in a way the words do not
     // cover), the words as typed answer.
-    const scoped = scopeValueWords(text, isValueScope, readQuantity);
+    const scoped = (await this.hasCurrentText(teamId)) ? scopeValueWords(text, isValueScope, readQuantity) : text;
     const result = await this.searchMatching(teamId, text, scoped, filters);
     return result.hits.length === 0 && scoped !== text ? this.searchMatching(teamId, text, text, filters) : result;
+  }
+
+  /** Whether every search row of the team holds the current text (named values); once true, stays true. */
+  private async hasCurrentText(teamId: string): Promise<boolean> {
+    if (currentTextTeams.has(teamId)) return true;
+    const [outdated] = await this.database
+      .select({ id: searchDocument.id })
+      .from(searchDocument)
+      .where(and(eq(searchDocument.teamId, teamId), lt(searchDocument.textVersion, SEARCH_TEXT_VERSION)))
+      .limit(1);
+    if (!outdated) currentTextTeams.add(teamId);
+    return !outdated;
   }
 
   private async searchMatching(teamId: string, text: string, matching: string, filters: SearchFilters): Promise<SearchResult> {

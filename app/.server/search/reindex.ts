@@ -3,8 +3,9 @@
  * Meilisearch is configured — its index, emptied and filled in batches. Safe to run
  * while servers work: a sheet saved meanwhile is queued through the outbox as usual.
  */
-import { asc, sql } from "drizzle-orm";
-import type { Database } from "../db/client";
+import { asc, lt, sql } from "drizzle-orm";
+import { SEARCH_TEXT_VERSION } from "~/lib/search/document-text";
+import { db, dbPool, type Database } from "../db/client";
 import { searchDocument } from "../db/schema";
 import { meilisearchEngine } from "./engine";
 import { rebuildSearchDocuments } from "./indexer";
@@ -25,4 +26,34 @@ export async function reindexSearch(database: Database, log: (line: string) => v
     log(`sent ${sent} documents to Meilisearch`);
   }
   return { documents, meilisearch: true };
+}
+
+/** Any number, the same on every server: the advisory lock one server holds while it rebuilds. */
+const REBUILD_LOCK = 7_314_002;
+
+/**
+ * At server start: rebuilds every search row when some were written with an older
+ * SEARCH_TEXT_VERSION (after an upgrade). One server does it, under a session advisory lock;
+ * the others go on serving, and search keeps answering from the rows it has meanwhile.
+ * Meilisearch keeps its copy (it reads the words as typed); `npm run search:reindex` renews it.
+ */
+export async function rebuildOutdatedSearchText(log: (line: string) => void): Promise<number> {
+  const database = db();
+  const [outdated] = await database.select({ id: searchDocument.id }).from(searchDocument).where(lt(searchDocument.textVersion, SEARCH_TEXT_VERSION)).limit(1);
+  if (!outdated) return 0;
+  const client = await dbPool().connect();
+  try {
+    const locked = await client.query<{ locked: boolean }>("select pg_try_advisory_lock($1) as locked", [REBUILD_LOCK]);
+    if (!locked.rows[0]?.locked) return 0;
+    try {
+      log(`search rows from an older version: rebuilding (version ${SEARCH_TEXT_VERSION})`);
+      const rebuilt = await rebuildSearchDocuments(database);
+      log(`rebuilt ${rebuilt} search rows`);
+      return rebuilt;
+    } finally {
+      await client.query("select pg_advisory_unlock($1)", [REBUILD_LOCK]);
+    }
+  } finally {
+    client.release();
+  }
 }

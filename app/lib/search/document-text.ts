@@ -13,6 +13,13 @@ import { formatQuantity } from "../calc/format";
 import { SI_UNIT } from "../calc/units";
 import type { Calculator } from "../calc/types";
 
+/**
+ * The form of the text below, stored with each search row. Raise it whenever the text a sheet
+ * is found by changes: servers rebuild older rows at start, and features that need the new
+ * text (named values) wait until a team's rows are all current.
+ */
+export const SEARCH_TEXT_VERSION = 2;
+
 /** A block of the latest revision as stored: typed inputs, SI inputs and results. */
 export interface IndexedBlock {
   blockId: string;

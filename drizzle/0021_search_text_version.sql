@@ -1,0 +1,1 @@
+ALTER TABLE "search_document" ADD COLUMN "text_version" integer DEFAULT 1 NOT NULL;
