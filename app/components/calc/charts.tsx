@@ -52,8 +52,9 @@ const Y_LABEL = { ...AXIS_LABEL, angle: -90, position: "insideLeft", offset: 43,
 const X_LABEL = { ...AXIS_LABEL, position: "insideBottom", offset: 2 } as const;
 // Every axis sets `interval`: recharts' default thinning of crowded ticks measures text,
 // which only the browser can do, so the server and the browser would draw different ticks.
-/** Widest category label (two digits) plus a gap at the largest font, in SVG units. */
-const CATEGORY_TICK_ROOM = 36;
+/** One digit of a category label, and the gap between labels, at the largest font, in SVG units. */
+const CATEGORY_DIGIT_WIDTH = 13;
+const CATEGORY_TICK_GAP = 10;
 
 // Padding in em so the box grows with the font size app.css gives it.
 const TOOLTIP_STYLE = {
@@ -174,10 +175,11 @@ function lineShapeFor(points: readonly WaveformPoint[]) {
   return STEP_AFTER;
 }
 
-/** Every n-th category is labelled, so the labels never crowd even at the largest font. */
-function categoryInterval(count: number): number {
+/** Every n-th category is labelled, so the labels never crowd even at the largest font (three-digit orders need more room than two). */
+function categoryInterval(count: number, widestLabel: number): number {
   const band = (CHART_WIDTH - MARGIN.left - MARGIN.right - Y_AXIS_WIDTH) / Math.max(count, 1);
-  return Math.max(0, Math.ceil(CATEGORY_TICK_ROOM / band) - 1);
+  const room = String(widestLabel).length * CATEGORY_DIGIT_WIDTH + CATEGORY_TICK_GAP;
+  return Math.max(0, Math.ceil(room / band) - 1);
 }
 
 export function WaveformChart({ points, title = "Output voltage, one cycle" }: { points: readonly WaveformPoint[]; title?: string }) {
@@ -243,7 +245,7 @@ export function SpectrumChart({ harmonics, title = "Harmonic spectrum" }: { harm
         <CartesianGrid stroke={RULE} strokeDasharray="2 3" vertical={false} />
         <XAxis
           dataKey="n"
-          interval={categoryInterval(bars.length)}
+          interval={categoryInterval(bars.length, bars.at(-1)?.n ?? 0)}
           height={X_AXIS_HEIGHT}
           tick={TICK}
           stroke={INK_FAINT}
