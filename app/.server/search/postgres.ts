@@ -154,6 +154,8 @@ export class PostgresSearchEngine implements SearchEngine {
         // weighs most. A query of common words matches most sheets and ranking them all costs tens
         // of milliseconds; its best-ranked sheets are these, and the head index lists far fewer.
         // When the tier cannot fill the page (rare words, values, a page far down), every match.
+        // (Nothing asks for a page past the first today; paging through both would need the tiers
+        // joined end to end — the head first, then the rest — so no sheet shows twice.)
         const head = await this.database.execute<Row>(
           pageOf(sql`select d.* from search_document d, ${tsquery} as q(query)
                  where ${where} and d.search_head @@ q.query and d.search @@ q.query
