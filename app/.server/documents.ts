@@ -184,7 +184,7 @@ export async function saveDocumentVersion(
     const saved = await writeVersion(tx, me, current, { source: input.source, tree: prepared.tree, citations: prepared.citations, note: input.note });
     await tx.delete(documentDraft).where(and(eq(documentDraft.documentId, document.id), eq(documentDraft.authorId, me.user.id)));
     await recordAudit(
-      { teamId: current.teamId, actorId: me.user.id, action: "document.saved", subjectType: "document", subjectId: document.id, detail: { version: saved.version, citations: prepared.citations.length } },
+      { teamId: current.teamId, actorId: me.user.id, action: "document.saved", subjectType: "document", subjectId: document.id, detail: { number: documentNumberLabel(current.number), version: saved.version, citations: prepared.citations.length } },
       tx,
     );
     return { ok: true as const, ...saved };

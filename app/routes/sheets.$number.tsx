@@ -25,6 +25,7 @@ import { listProjects } from "~/.server/projects";
 import { getRevision, getRevisionById, getSheet, listRevisions, reuseRevision, revisionBlocks, sheetLineage, SheetRuleError } from "~/.server/sheets";
 import { sheetNumberLabel } from "~/lib/sheets/numbering";
 import { pageCache } from "~/.server/page-cache";
+import { describeAuditEvent } from "~/lib/audit/wording";
 
 /** Read far more often than written: the rendered page is kept until anything it shows changes. */
 export const middleware: Route.MiddlewareFunction[] = [pageCache];
@@ -415,7 +416,7 @@ export default function SheetPage() {
                   {e.createdAt.slice(0, 16).replace("T", " ")}
                 </time>
                 <span>
-                  <strong className="font-medium">{e.actorName ?? "Sinewright"}</strong> {describeAudit(e.action, e.detail)}
+                  <strong className="font-medium">{e.actorName ?? "Sinewright"}</strong> {describeAuditEvent(e.action, e.detail)}
                 </span>
               </li>
             ))}
@@ -426,32 +427,5 @@ export default function SheetPage() {
   );
 }
 
-function describeAudit(action: string, detail: Record<string, unknown>): string {
-  const rev = detail.label ? ` revision ${String(detail.label)}` : "";
-  switch (action) {
-    case "sheet.created":
-      return `created the sheet (${String(detail.number ?? "")})`;
-    case "revision.saved":
-      return `saved${rev} (hash ${String(detail.contentHash ?? "").slice(0, 12)})`;
-    case "revision.submitted":
-      return `sent${rev} for checking to ${String(detail.checker ?? "a checker")}`;
-    case "comment.added":
-      return `commented on${rev} (${String(detail.anchor ?? "")})`;
-    case "comment.replied":
-      return `replied on${rev}`;
-    case "comment.resolved":
-      return `resolved a comment thread`;
-    case "check.values-recorded":
-      return `re-ran ${String(detail.blockId)} on${rev}: ${detail.agrees ? "agrees" : "differs"}`;
-    case "revision.returned":
-      return `returned${rev} with comments`;
-    case "revision.verified":
-      return `verified and stamped${rev}`;
-    case "sheet.details-changed":
-      return "changed the sheet's details";
-    default:
-      return action;
-  }
-}
 
 export { RouteErrorBoundary as ErrorBoundary } from "~/components/route-error";

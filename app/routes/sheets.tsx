@@ -120,7 +120,39 @@ export default function Sheets() {
           </EmptyState>
         )
       ) : (
-        <div className="panel overflow-x-auto">
+        <>
+          {/* On a phone each sheet is a card: a table this wide would scroll sideways inside itself. */}
+          <div className="sm:hidden">
+            <nav aria-label="Sort sheets" className="mb-2 flex flex-wrap items-baseline gap-x-3 gap-y-1 text-sm text-ink-faint">
+              <span>Sort by</span>
+              {COLUMNS.map((c) => (
+                <Link key={c.key} to={sortLink(c.key)} aria-current={data.query.sort === c.key ? "true" : undefined} className={data.query.sort === c.key ? "font-medium text-ink" : "hover:text-ink"}>
+                  {c.label}
+                  {data.query.sort === c.key ? <span aria-hidden="true">{data.query.dir === "asc" ? " ▲" : " ▼"}</span> : null}
+                </Link>
+              ))}
+            </nav>
+            <ul className="panel m-0 list-none divide-y divide-rule p-0">
+              {data.rows.map((row) => (
+                <li key={row.id} className="px-4 py-3">
+                  <div className="flex items-center justify-between gap-2">
+                    <span className="font-mono text-sm">
+                      {row.label}
+                      {row.latestLabel ? <span className="text-ink-faint"> · {row.latestLabel}</span> : null}
+                    </span>
+                    <StatusBadge status={row.status} />
+                  </div>
+                  <Link to={`/sheets/${row.label}`} className="mt-1 block font-medium">
+                    {row.title}
+                  </Link>
+                  <p className="m-0 mt-1 text-xs text-ink-faint">
+                    {[row.projectCode ?? "library", new Date(row.updatedAt).toISOString().slice(0, 10), row.authorName, row.tags.join(" · ")].filter(Boolean).join(" — ")}
+                  </p>
+                </li>
+              ))}
+            </ul>
+          </div>
+        <div className="panel hidden overflow-x-auto sm:block">
           <table className="w-full min-w-[44rem] text-left text-sm">
             <caption className="sr-only">
               Calc sheets, {data.total} in all, sorted by {data.query.sort} {data.query.dir === "asc" ? "ascending" : "descending"}
@@ -170,6 +202,7 @@ export default function Sheets() {
             </tbody>
           </table>
         </div>
+        </>
       )}
       {data.pages > 1 ? (
         <nav aria-label="Pages" className="mt-4 flex items-center justify-between text-sm">

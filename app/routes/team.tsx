@@ -6,6 +6,7 @@ import { email, fieldErrors, type FieldErrors } from "~/lib/forms/account";
 import { requireMember } from "~/.server/access";
 import { ROLE_LABELS, ROLES } from "~/.server/roles";
 import { cancelInvitation, changeRole, inviteMember, listMembers, listPendingInvitations, removeMember, teamAudit, TeamRuleError } from "~/.server/team";
+import { describeAuditEvent } from "~/lib/audit/wording";
 
 export const meta: Route.MetaFunction = () => [{ title: "Team · Sinewright" }];
 
@@ -182,7 +183,7 @@ export default function Team() {
                       {new Date(e.createdAt).toISOString().slice(0, 16).replace("T", " ")}
                     </time>
                     <span>
-                      <strong className="font-medium">{e.actorName ?? "Sinewright"}</strong> {describe(e.action, e.detail as Record<string, unknown>)}
+                      <strong className="font-medium">{e.actorName ?? "Sinewright"}</strong> {describeAuditEvent(e.action, e.detail as Record<string, unknown>)}
                     </span>
                   </li>
                 ))}
@@ -195,29 +196,5 @@ export default function Team() {
   );
 }
 
-function describe(action: string, detail: Record<string, unknown>): string {
-  switch (action) {
-    case "member.role-changed":
-      return `changed a role from ${String(detail.from)} to ${String(detail.to)}`;
-    case "member.removed":
-      return `removed a member (${String(detail.role)})`;
-    case "member.invited":
-      return `sent an invitation (${String(detail.role)})`;
-    case "invitation.canceled":
-      return `withdrew an invitation to ${String(detail.email)}`;
-    case "team.created":
-      return "created the team";
-    case "team.seeded":
-      return "set up this demo team";
-    case "member.joined":
-      return `joined the team as ${String(detail.role)}`;
-    case "api-key.created":
-      return "created a personal API key";
-    case "api-key.revoked":
-      return "revoked a personal API key";
-    default:
-      return action;
-  }
-}
 
 export { RouteErrorBoundary as ErrorBoundary } from "~/components/route-error";
