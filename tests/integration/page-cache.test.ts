@@ -1,5 +1,6 @@
 import { createHash } from "node:crypto";
 import { describe, expect, it } from "vitest";
+import { freePort, spawnServer } from "../support/app-server";
 import { pageText, teamWithRoles, type Visitor } from "../support/http";
 import { serverQuery } from "../support/server-db";
 
@@ -159,6 +160,29 @@ describe("rendered-page cache", () => {
     const after = await fetch(new URL(`/sheets/${label}`, viewer.baseUrl), { headers: { cookie }, redirect: "manual" });
     expect(after.status).toBe(302);
     expect(after.headers.get("x-page-cache")).toBeNull();
+  });
+
+  it("keeps servers in step: a change made through one server shows at once on another that had kept the page", async () => {
+    const port = String(await freePort());
+    const second = await spawnServer({ ...process.env, DATABASE_URL: process.env.TEST_SERVER_DATABASE_URL!, PORT: port, APP_URL: `http://127.0.0.1:${port}`, LOG_LEVEL: "warn" });
+    try {
+      const { people } = await teamWithRoles("pagecache-servers", ["engineer", "checker", "viewer"]);
+      const label = await sheetWithRevision(people.engineer!.visitor, "DC link read on two servers");
+      // The viewer's browser, pointed at the second server with the same session.
+      const onSecond = async () => {
+        const response = await fetch(new URL(`/sheets/${label}`, second.url), { headers: { cookie: people.viewer!.visitor.cookieHeader() }, redirect: "manual" });
+        return { cache: response.headers.get("x-page-cache"), text: (await response.text()).replace(/<[^>]+>/g, " ") };
+      };
+      expect((await onSecond()).cache).toBe("miss");
+      expect((await onSecond()).cache).toBe("hit");
+      // The checker comments through the first server.
+      expect((await people.checker!.visitor.postForm(`/sheets/${label}`, { intent: "comment", anchor: "block:dc1", body: "Seen from the other server." })).status).toBe(200);
+      const after = await onSecond();
+      expect(after.cache).toBe("miss");
+      expect(after.text).toContain("Seen from the other server.");
+    } finally {
+      await second.stop();
+    }
   });
 
   it("has a content-version trigger on every table a page can show, and names why each other table has none", async () => {
