@@ -14,7 +14,7 @@
  */
 import { createHash } from "node:crypto";
 import { promisify } from "node:util";
-import { brotliCompress, constants as zlibConstants, gzip } from "node:zlib";
+import { brotliCompress, constants as zlibConstants, gunzipSync, gzip } from "node:zlib";
 import { asc, eq, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { MiddlewareFunction } from "react-router";
@@ -47,8 +47,11 @@ export const TABLES_PAGES_DO_NOT_SHOW: Record<string, string> = {
 };
 
 interface CachedPage {
-  html: Buffer;
-  /** The same bytes compressed once, for the encodings browsers ask for. */
+  /**
+   * The page compressed once, for the encodings browsers ask for. The plain bytes are not kept
+   * (a sheet page is several times its compressed size): the rare client that takes neither gets
+   * them unzipped again.
+   */
   gzip: Buffer;
   br: Buffer;
   /** SHA-256 sources of the page's inline scripts, for its Content-Security-Policy. */
@@ -64,7 +67,7 @@ function store(): LRUCache<string, CachedPage> | undefined {
   if (megabytes === 0) return undefined;
   pages ??= new LRUCache<string, CachedPage>({
     maxSize: megabytes * 1024 * 1024,
-    sizeCalculation: (page) => page.html.length + page.gzip.length + page.br.length,
+    sizeCalculation: (page) => page.gzip.length + page.br.length,
   });
   return pages;
 }
@@ -87,7 +90,7 @@ async function keep(html: Buffer, contentType: string): Promise<CachedPage> {
     // Quality 5: most of brotli's gain at a few milliseconds, once per kept page.
     brotliAsync(html, { params: { [zlibConstants.BROTLI_PARAM_QUALITY]: 5, [zlibConstants.BROTLI_PARAM_SIZE_HINT]: html.length } }),
   ]);
-  return { html, gzip: gzipped, br: brotli, scriptHashes: inlineScriptHashes(html.toString("utf8")), contentType };
+  return { gzip: gzipped, br: brotli, scriptHashes: inlineScriptHashes(html.toString("utf8")), contentType };
 }
 
 function pageHeaders(page: CachedPage, secure: boolean): Record<string, string> {
@@ -172,7 +175,7 @@ export const pageCache: MiddlewareFunction<Response> = async ({ request }, next)
   const cached = pages.get(key);
   if (cached) {
     // Uncompressed here: server.js answers hits itself, with the kept compressed bytes.
-    return new Response(new Uint8Array(cached.html), { status: 200, headers: pageHeaders(cached, isSecureRequest(request)) });
+    return new Response(new Uint8Array(gunzipSync(cached.gzip)), { status: 200, headers: pageHeaders(cached, isSecureRequest(request)) });
   }
 
   const response = await next();
@@ -207,7 +210,7 @@ export async function cachedPageAnswer(request: { url: string; cookie: string; s
   const key = reader ? pageKey(reader, pathWithSearch(request.url)) : null;
   const cached = key ? pages.get(key) : undefined;
   if (!cached) return null;
-  const body = request.encoding === "identity" ? cached.html : cached[request.encoding];
+  const body = request.encoding === "identity" ? gunzipSync(cached.gzip) : cached[request.encoding];
   return { body, headers: { ...pageHeaders(cached, request.secure), ...(request.encoding === "identity" ? {} : { "Content-Encoding": request.encoding }) } };
 }
 
