@@ -79,7 +79,7 @@ async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamI
   return { user: { id: row.id, name: row.name, email: row.email }, teamId: row.teamId };
 }
 
-export type SignedIn = { user: SignedInUser; activeTeamId: string | null; via: Member["via"] };
+type SignedIn = { user: SignedInUser; activeTeamId: string | null; via: Member["via"] };
 
 /**
  * The layout's loader and the page's loader both ask who is signing in; one lookup
@@ -107,12 +107,7 @@ async function lookUpSignedIn(request: Request): Promise<SignedIn | null> {
       return { user: keyed.user, activeTeamId: keyed.teamId, via: "api-key" };
     }
   }
-  return sessionOf(request.headers);
-}
-
-/** Who a session cookie belongs to, asked of better-auth. */
-async function sessionOf(headers: Headers): Promise<SignedIn | null> {
-  const session = await auth().api.getSession({ headers });
+  const session = await auth().api.getSession({ headers: request.headers });
   if (!session) return null;
   const { id, name, email } = session.user;
   noteSignedIn(id, "session");

@@ -15,14 +15,13 @@
 import { createHash } from "node:crypto";
 import { promisify } from "node:util";
 import { brotliCompress, constants as zlibConstants, gunzipSync, gzip } from "node:zlib";
-import { asc, eq, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { MiddlewareFunction } from "react-router";
-import { getSignedIn, signedSessionToken } from "./access";
+import { signedSessionToken } from "./access";
 import { SESSION_REFRESH_SECONDS, SESSION_SECONDS } from "./auth";
 import { config } from "./config";
 import { db } from "./db/client";
-import { member, organization, teamContentVersion } from "./db/schema";
 import { currentRequestLog, noteSignedIn } from "./request-log";
 import { isRole } from "./roles";
 import { isSecureRequest, securityHeaders } from "./security-headers";
@@ -105,17 +104,6 @@ interface Reader {
   teams: { teamId: string; teamName: string; role: string; version: number }[];
 }
 
-/** The reader's teams with each team's content version, in one query. */
-async function readerTeams(userId: string): Promise<Reader["teams"]> {
-  return db()
-    .select({ teamId: organization.id, teamName: organization.name, role: member.role, version: sql<number>`coalesce(${teamContentVersion.version}, 0)`.mapWith(Number) })
-    .from(member)
-    .innerJoin(organization, eq(member.organizationId, organization.id))
-    .leftJoin(teamContentVersion, eq(teamContentVersion.teamId, organization.id))
-    .where(eq(member.userId, userId))
-    .orderBy(asc(organization.name));
-}
-
 /**
  * The reader a session token belongs to, with their teams, in one query: the whole cost of a
  * hit. A session past its expiry, or due for better-auth's daily extension, gives null, so the
@@ -152,6 +140,15 @@ function pageKey(reader: Reader, pathWithSearch: string): string | null {
   return JSON.stringify([team.version, team.teamId, reader.userId, reader.userName, teams.map((t) => [t.teamId, t.teamName, t.role]), pathWithSearch]);
 }
 
+/** The cache key for this reader and URL, from the session cookie alone; null when the framework must answer. */
+async function keyOf(cookie: string | null, url: string): Promise<string | null> {
+  const token = cookie ? await signedSessionToken(cookie) : null;
+  const reader = token ? await readerOfSession(token) : null;
+  if (!reader) return null;
+  noteSignedIn(reader.userId, "session");
+  return pageKey(reader, pathWithSearch(url));
+}
+
 function pathWithSearch(url: string): string {
   const parsed = new URL(url, "http://page");
   return parsed.pathname + parsed.search;
@@ -159,18 +156,16 @@ function pathWithSearch(url: string): string {
 
 /**
  * Route middleware for a page worth caching: answers from the cache when it can, else lets
- * the loaders render and keeps the page. Anything unusual (not a plain GET of the page,
- * nobody signed in, an API key, no team) goes straight to the loaders, which answer it as
- * they always do.
+ * the loaders render and keeps the page. It finds the reader as server.js does (`keyOf`).
+ * Anything unusual (not a plain GET of the page, nobody signed in, an API key, no team, a
+ * session due for its extension) goes straight to the loaders, which answer it as they
+ * always do.
  */
 export const pageCache: MiddlewareFunction<Response> = async ({ request }, next) => {
   const pages = store();
   if (!pages || request.method !== "GET" || new URL(request.url).pathname.endsWith(".data")) return next();
-  const signedIn = await getSignedIn(request);
-  if (!signedIn || signedIn.via !== "session") return next();
   // Read before rendering: a change committed meanwhile moves the version past this key.
-  const reader = { userId: signedIn.user.id, userName: signedIn.user.name, activeTeamId: signedIn.activeTeamId, teams: await readerTeams(signedIn.user.id) };
-  const key = pageKey(reader, pathWithSearch(request.url));
+  const key = await keyOf(request.headers.get("cookie"), request.url);
   if (!key) return next();
   const cached = pages.get(key);
   if (cached) {
@@ -204,10 +199,7 @@ export const pageCache: MiddlewareFunction<Response> = async ({ request }, next)
 export async function cachedPageAnswer(request: { url: string; cookie: string; secure: boolean; encoding: PageEncoding }): Promise<{ headers: Record<string, string>; body: Buffer } | null> {
   const pages = store();
   if (!pages) return null;
-  const token = await signedSessionToken(request.cookie);
-  const reader = token ? await readerOfSession(token) : null;
-  if (reader) noteSignedIn(reader.userId, "session");
-  const key = reader ? pageKey(reader, pathWithSearch(request.url)) : null;
+  const key = await keyOf(request.cookie, request.url);
   const cached = key ? pages.get(key) : undefined;
   if (!cached) return null;
   const body = request.encoding === "identity" ? gunzipSync(cached.gzip) : cached[request.encoding];

@@ -134,7 +134,7 @@ export class PostgresSearchEngine implements SearchEngine {
     } else {
       const matches = sql`select 1 from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`;
       // Snippets only for the page: ts_headline re-parses the text, so it runs on the few rows shown.
-      const pageOf = (candidates: SQL) => sql`
+      const rankedPage = (candidates: SQL) => sql`
         select p.*, ts_headline('sinewright', p.body, ${ranking}, ${HEADLINE_OPTIONS}) as headline
         from (
           select c.id, c.kind, c.number, c.title, c.project_code, c.state, c.revision_label, c.body, c.block_values,
@@ -157,7 +157,7 @@ export class PostgresSearchEngine implements SearchEngine {
         // (Nothing asks for a page past the first today; paging through both would need the tiers
         // joined end to end — the head first, then the rest — so no sheet shows twice.)
         const head = await this.database.execute<Row>(
-          pageOf(sql`select d.* from search_document d, ${tsquery} as q(query)
+          rankedPage(sql`select d.* from search_document d, ${tsquery} as q(query)
                  where ${where} and d.search_head @@ q.query and d.search @@ q.query
                  order by d.search_head <=> q.query
                  limit ${window}`),
@@ -167,7 +167,7 @@ export class PostgresSearchEngine implements SearchEngine {
           ? head.rows
           : (
               await this.database.execute<Row>(
-                pageOf(sql`select d.* from search_document d, ${tsquery} as q(query)
+                rankedPage(sql`select d.* from search_document d, ${tsquery} as q(query)
                        where ${where} and d.search @@ q.query
                        order by d.search <=> q.query
                        limit ${window}`),
@@ -176,7 +176,7 @@ export class PostgresSearchEngine implements SearchEngine {
         counted = await this.countMatches(text, rows, matches, headFills ? Number.POSITIVE_INFINITY : window);
       } else {
         // Without the index: ts_rank over every match.
-        rows = (await this.database.execute<Row>(pageOf(sql`select d.* from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`))).rows;
+        rows = (await this.database.execute<Row>(rankedPage(sql`select d.* from search_document d, ${tsquery} as q(query) where ${where} and d.search @@ q.query`))).rows;
         counted = await this.countMatches(text, rows, matches, Number.NaN);
       }
     }

@@ -38,9 +38,25 @@ export interface CalculatorBlockProps {
 }
 
 export const BLOCK_FRAME = "my-6 overflow-hidden rounded-lg border border-rule-strong bg-sheet font-sans text-ink shadow-[0_1px_0_var(--color-rule)]";
-export const BLOCK_HEAD = "flex flex-wrap items-center justify-between gap-x-3 gap-y-1 border-b border-rule border-l-4 border-l-copper bg-paper px-4 py-2";
+const BLOCK_HEAD = "flex flex-wrap items-center justify-between gap-x-3 gap-y-1 border-b border-rule border-l-4 border-l-copper bg-paper px-4 py-2";
 // Utilities (not the prose layer) so a block looks the same inside .prose-sheet and outside it.
-export const BLOCK_TITLE = "m-0 text-sm font-semibold leading-snug";
+const BLOCK_TITLE = "m-0 text-sm font-semibold leading-snug";
+
+/** A block's head band: its id and what it is, and its status on the right. */
+export function BlockHeader({ titleId, blockId, title, status }: { titleId: string; blockId: string; title: React.ReactNode; status: React.ReactNode }) {
+  return (
+    <header className={BLOCK_HEAD}>
+      <h3 id={titleId} className={BLOCK_TITLE}>
+        <span className="font-mono text-copper-deep">{blockId}</span>
+        <span className="text-ink-faint" aria-hidden="true">
+          {" · "}
+        </span>
+        {title}
+      </h3>
+      {status}
+    </header>
+  );
+}
 
 /** Cautions most calculators share: the sheet shows them once in full, a block names them in one line. */
 const SHARED_CAUTIONS: ReadonlySet<string> = (() => {
@@ -364,12 +380,7 @@ export function CalculatorBlock({ blockId, calculatorId, inputs, outcome, editab
     const errors = outcome && !outcome.ok ? outcome.errors : [{ field: "calculator", message: `unknown calculator "${calculatorId}"` }];
     return (
       <section aria-labelledby={titleId} className={BLOCK_FRAME}>
-        <header className={BLOCK_HEAD}>
-          <h3 id={titleId} className={BLOCK_TITLE}>
-            <span className="font-mono">{blockId}</span> · Unknown calculator
-          </h3>
-          <BlockStatus outcome={outcome ?? { ok: false, calculator: calculatorId, errors }} />
-        </header>
+        <BlockHeader titleId={titleId} blockId={blockId} title="Unknown calculator" status={<BlockStatus outcome={outcome ?? { ok: false, calculator: calculatorId, errors }} />} />
         <div className="px-4 py-4 sm:px-5">
           <ErrorSummary blockId={blockId} errors={errors} calculator={undefined} fieldIdFor={undefined} />
         </div>
@@ -393,16 +404,7 @@ export function CalculatorBlock({ blockId, calculatorId, inputs, outcome, editab
 
   return (
     <section aria-labelledby={titleId} className={BLOCK_FRAME} data-block-id={blockId}>
-      <header className={BLOCK_HEAD}>
-        <h3 id={titleId} className={BLOCK_TITLE}>
-          <span className="font-mono text-copper-deep">{blockId}</span>
-          <span className="text-ink-faint" aria-hidden="true">
-            {" · "}
-          </span>
-          {calculator.title}
-        </h3>
-        <BlockStatus outcome={outcome} />
-      </header>
+      <BlockHeader titleId={titleId} blockId={blockId} title={calculator.title} status={<BlockStatus outcome={outcome} />} />
 
       <div className="px-4 py-4 sm:px-5">
         <div className="grid gap-x-8 gap-y-5 md:grid-cols-2">

@@ -7,7 +7,7 @@
 import { useId } from "react";
 import { formatQuantity } from "~/lib/calc/format";
 import type { ComparisonRow, MeasurementOutcome } from "~/lib/waveform/measurement";
-import { BLOCK_FRAME, BLOCK_HEAD, BLOCK_TITLE } from "./calculator-block";
+import { BLOCK_FRAME, BlockHeader } from "./calculator-block";
 import { SpectrumChart, WaveformChart } from "./charts";
 import { HarmonicsTable } from "./harmonics-table";
 import { OverMark, PassMark, WarningMark } from "./status-icons";
@@ -68,16 +68,7 @@ export function MeasuredWaveformBlock({ blockId, attributes, outcome, attachment
 
   return (
     <section aria-labelledby={titleId} className={BLOCK_FRAME} data-block-id={blockId} data-measurement="true">
-      <header className={BLOCK_HEAD}>
-        <h3 id={titleId} className={BLOCK_TITLE}>
-          <span className="font-mono text-copper-deep">{blockId}</span>
-          <span className="text-ink-faint" aria-hidden="true">
-            {" · "}
-          </span>
-          Measured waveform
-        </h3>
-        {status}
-      </header>
+      <BlockHeader titleId={titleId} blockId={blockId} title="Measured waveform" status={status} />
       <div className="px-4 py-4 sm:px-5">
         {!outcome || !outcome.ok ? (
           <div>
