@@ -5,7 +5,8 @@
 // Skipped entirely when DATABASE_URL points at an existing server.
 import { execFileSync, spawnSync } from "node:child_process";
 import { createHash } from "node:crypto";
-import { existsSync, mkdirSync, readdirSync, writeFileSync, chownSync, statSync } from "node:fs";
+import { chmodSync, chownSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 
@@ -93,15 +94,47 @@ function reachableByPostgres(dir) {
   return spawnSync("runuser", ["-u", "postgres", "--", "test", "-x", dir], { stdio: "ignore" }).status === 0;
 }
 
-/** The data folder: `.data/postgres` in the checkout, or — when root must hand it to the postgres user and the checkout is not reachable — a folder under /var/lib named after the checkout. */
+/**
+ * The data folder: `.data/postgres` in the checkout, or — when the checkout's `.data` cannot be made (a read-only
+ * checkout) or, for root, cannot be reached by the postgres user (a checkout in a private folder) — a folder named
+ * after the checkout under /var/lib/sinewright (root) or the user's data folder.
+ */
 export function dataDir() {
   if (process.env.PGDATA_PRIVATE) return process.env.PGDATA_PRIVATE;
   const local = path.join(root, ".data", "postgres");
-  if (!isRoot) return local;
-  mkdirSync(path.dirname(local), { recursive: true });
-  if (reachableByPostgres(path.dirname(local))) return local;
+  try {
+    mkdirSync(path.dirname(local), { recursive: true });
+    if (!isRoot || reachableByPostgres(path.dirname(local))) return local;
+  } catch {
+    // A read-only checkout: fall through to a folder outside it.
+  }
   const tag = createHash("sha256").update(root).digest("hex").slice(0, 12);
-  return path.join("/var/lib/sinewright", `postgres-${tag}`);
+  const base = isRoot
+    ? "/var/lib/sinewright"
+    : path.join(process.env.XDG_DATA_HOME ?? path.join(os.homedir(), ".local", "share"), "sinewright");
+  return path.join(base, `postgres-${tag}`);
+}
+
+/**
+ * Makes the (empty) data folder for initdb. As root it belongs to the postgres user, and its parents are made
+ * traversable (0755), so the server can reach it even where a parent had to be created here.
+ */
+function makeDataDir(dir, owner) {
+  if (owner) {
+    const missing = [];
+    for (let parent = path.dirname(dir); !existsSync(parent); parent = path.dirname(parent)) missing.unshift(parent);
+    for (const parent of missing) mkdirSync(parent, { mode: 0o755 });
+    if (path.dirname(dir) === "/var/lib/sinewright") chmodSync(path.dirname(dir), 0o755); // made 0700 by older versions
+  }
+  mkdirSync(dir, { recursive: true, mode: 0o700 });
+  if (owner) chownSync(dir, owner.uid, owner.gid);
+}
+
+/** The postgres system user's ids, when root runs the server as that user. */
+function serverUser() {
+  if (!isRoot) return undefined;
+  const id = (flag) => Number(execFileSync("id", [flag, "postgres"]).toString().trim());
+  return { uid: id("-u"), gid: id("-g") };
 }
 
 function asServerUser(bin, args, options = {}) {
@@ -128,20 +161,22 @@ export function start() {
   const dir = dataDir();
   if (!existsSync(path.join(dir, "PG_VERSION"))) {
     log(`initialising a new cluster in ${dir}`);
-    mkdirSync(dir, { recursive: true, mode: 0o700 });
-    const pwfile = path.join(dir, "..", `.pwfile-${process.pid}`);
+    const owner = serverUser();
+    makeDataDir(dir, owner);
+    // initdb reads the password from a file: one in a private temporary folder that the server's user owns, so it
+    // can read it wherever the checkout is, and nobody else can.
+    const pwDir = mkdtempSync(path.join(os.tmpdir(), "sinewright-initdb-"));
+    const pwfile = path.join(pwDir, "password");
     writeFileSync(pwfile, PG_PASSWORD + "\n", { mode: 0o600 });
-    if (isRoot) {
-      const uid = Number(execFileSync("id", ["-u", "postgres"]).toString().trim());
-      const gid = Number(execFileSync("id", ["-g", "postgres"]).toString().trim());
-      chownSync(dir, uid, gid);
-      chownSync(pwfile, uid, gid);
+    if (owner) {
+      chownSync(pwDir, owner.uid, owner.gid);
+      chownSync(pwfile, owner.uid, owner.gid);
     }
     const init = asServerUser(bin, [
       "initdb", "-D", dir, "-U", PG_USER, `--pwfile=${pwfile}`, "--auth-host=scram-sha-256", "--auth-local=reject",
       "--encoding=UTF8", "--locale=C.UTF-8",
     ]);
-    spawnSync("rm", ["-f", pwfile]);
+    rmSync(pwDir, { recursive: true, force: true });
     if (init.status !== 0) throw new Error(`initdb failed:\n${init.stdout}\n${init.stderr}`);
   }
   if (status().running) {
