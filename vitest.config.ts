@@ -31,8 +31,8 @@ export default defineConfig({
         test: {
           name: "e2e",
           include: ["tests/e2e/**/*.test.ts"],
-          // A browser on a loaded 2-core machine occasionally misses a wait; one retry, reported as such.
-          retry: 1,
+          // No retries: a browser test that fails now and then has a cause to find, not a second chance.
+          retry: 0,
           environment: "node",
           testTimeout: 60_000,
           hookTimeout: 60_000,

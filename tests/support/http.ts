@@ -87,7 +87,8 @@ export async function signUpWithTeam(label: string, baseUrl = BASE_URL) {
 export async function teamWithRoles(label: string, roles: string[]) {
   const { serverQuery } = await import("./server-db");
   const admin = await signUpWithTeam(label);
-  const [team] = await serverQuery<{ id: string }>(`select id from organization where name = $1`, [`Team ${label}`]);
+  // By the new admin's membership, not the team's name: a name may repeat (another test, or a test run again).
+  const [team] = await serverQuery<{ id: string }>(`select m.organization_id as id from member m join "user" u on u.id = m.user_id where u.email = $1`, [admin.email]);
   const people: Record<string, { visitor: Visitor; email: string; userId: string }> = {};
   const [adminRow] = await serverQuery<{ id: string }>(`select id from "user" where email = $1`, [admin.email]);
   people.admin = { visitor: admin.visitor, email: admin.email, userId: adminRow!.id };
