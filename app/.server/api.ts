@@ -1,4 +1,14 @@
 import type { z } from "zod";
+import { HARDWARE_CAUTION } from "~/lib/cautions";
+
+/** An API answer that carries results also carries the safety caution, as the pages do. */
+export function withCaution<T extends object>(body: T): T & { caution: string } {
+  return { ...body, caution: HARDWARE_CAUTION };
+}
+
+export function resultsJson(body: object, init?: ResponseInit): Response {
+  return Response.json(withCaution(body), init);
+}
 
 /** The one shape of an API error: a sentence, and per-field messages where there are fields. */
 export function apiError(status: number, error: string, fieldErrors?: { field: string; message: string }[]): Response {

@@ -1,3 +1,4 @@
+import { STAMP_MEANING } from "~/lib/cautions";
 import { StatusBadge } from "./status-badge";
 
 export interface TitleBlockData {
@@ -42,6 +43,7 @@ export function TitleBlock({ data }: { data: TitleBlockData }) {
       {data.contentHash ? (
         <p className="border-t border-rule px-4 py-1.5 font-mono text-[11px] text-ink-faint">content hash {data.contentHash}</p>
       ) : null}
+      <p className="border-t border-rule px-4 py-1.5 text-[11px] text-ink-faint">{STAMP_MEANING}</p>
     </section>
   );
 }

@@ -2,7 +2,7 @@ import type { Route } from "./+types/api.v1.blocks";
 import { blockQuery } from "~/lib/forms/search";
 import { sheetNumberLabel } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
-import { apiError, methodNotAllowed } from "~/.server/api";
+import { apiError, methodNotAllowed, resultsJson } from "~/.server/api";
 import { BlockQueryError } from "~/.server/search";
 import { BlockSearchInputError, runBlockSearch } from "~/.server/search-query";
 
@@ -13,7 +13,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (!parsed.success) return apiError(400, "The block query needs fixing.", parsed.error.issues.map((i) => ({ field: String(i.path[0] ?? "query"), message: i.message })));
   try {
     const hits = await runBlockSearch(me, parsed.data);
-    return Response.json({
+    return resultsJson({
       blocks: hits.map((h) => ({
         sheet: sheetNumberLabel(h.sheetNumber),
         title: h.title,

@@ -3,7 +3,7 @@ import type { Route } from "./+types/api.v1.calculators.$calculatorId.evaluate";
 import { evaluateCalculator } from "~/lib/calc/evaluate-sheet";
 import { getCalculator } from "~/lib/calc/registry";
 import { requireMember } from "~/.server/access";
-import { apiError, methodNotAllowed, readJson } from "~/.server/api";
+import { apiError, methodNotAllowed, readJson, resultsJson } from "~/.server/api";
 
 const body = z.object({
   inputs: z.record(z.string(), z.unknown(), { message: "`inputs` must be an object of input key → value, e.g. {\"vdc\": \"48 V\"}." }).default({}),
@@ -17,7 +17,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const { inputs } = await readJson(request, body);
   const outcome = evaluateCalculator(params.calculatorId, inputs);
   if (!outcome.ok) return apiError(400, "Some inputs need fixing.", outcome.errors);
-  return Response.json({ calculator: outcome.calculator, engineVersion: outcome.engineVersion, results: outcome.results, warnings: outcome.warnings });
+  return resultsJson({ calculator: outcome.calculator, engineVersion: outcome.engineVersion, results: outcome.results, warnings: outcome.warnings });
 }
 
 export async function loader({ request }: Route.LoaderArgs) {

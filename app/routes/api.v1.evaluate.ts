@@ -2,7 +2,7 @@ import { z } from "zod";
 import type { Route } from "./+types/api.v1.evaluate";
 import { evaluateSheet } from "~/lib/calc/evaluate-sheet";
 import { requireMember } from "~/.server/access";
-import { apiError, methodNotAllowed, readJson } from "~/.server/api";
+import { apiError, methodNotAllowed, readJson, resultsJson } from "~/.server/api";
 
 const MAX_BLOCKS = 200;
 const body = z.object({
@@ -18,7 +18,7 @@ export async function action({ request }: Route.ActionArgs) {
   const { blocks } = await readJson(request, body);
   const evaluation = evaluateSheet(blocks);
   if (evaluation.errors.length > 0) return apiError(400, "The sheet itself needs fixing.", evaluation.errors);
-  return Response.json(evaluation);
+  return resultsJson(evaluation);
 }
 
 export async function loader({ request }: Route.LoaderArgs) {

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/api.v1.sheets.$number.attachments";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
-import { apiError, methodNotAllowed } from "~/.server/api";
+import { apiError, methodNotAllowed, resultsJson, withCaution } from "~/.server/api";
 import { AttachmentError, listAttachments, uploadAttachment, type IngestProgress } from "~/.server/attachments";
 import type { AttachmentSummary } from "~/lib/attachments/files";
 import { getSheet } from "~/.server/sheets";
@@ -12,7 +12,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
   if (!sheet) return apiError(404, `No sheet ${params.number} in this team.`);
-  return Response.json({ sheet: sheet.label, attachments: (await listAttachments(sheet.id)).map((a) => withUrl(a, sheet.label)) });
+  return resultsJson({ sheet: sheet.label, attachments: (await listAttachments(sheet.id)).map((a) => withUrl(a, sheet.label)) });
 }
 
 /**
@@ -40,7 +40,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!(request.headers.get("accept") ?? "").includes("application/x-ndjson")) {
     try {
       const attachment = await upload();
-      return Response.json({ attachment: withUrl(attachment, sheet.label) }, { status: 201 });
+      return resultsJson({ attachment: withUrl(attachment, sheet.label) }, { status: 201 });
     } catch (error) {
       return failure(error);
     }
@@ -52,7 +52,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       const line = (value: unknown) => controller.enqueue(encoder.encode(`${JSON.stringify(value)}\n`));
       try {
         const attachment = await upload((progress) => line(progress));
-        line({ attachment: withUrl(attachment, sheet.label) });
+        line(withCaution({ attachment: withUrl(attachment, sheet.label) }));
       } catch (error) {
         const answer = failure(error);
         line({ ...(await answer.json()), status: answer.status });

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/api.v1.sheets.$number.revisions.$rev";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
-import { apiError, methodNotAllowed } from "~/.server/api";
+import { apiError, methodNotAllowed, resultsJson } from "~/.server/api";
 import { checkIntegrity, revisionReview } from "~/.server/review";
 import { getRevision, getSheet, revisionBlocks } from "~/.server/sheets";
 
@@ -15,7 +15,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (!revision) return apiError(404, `Sheet ${sheet.label} has no revision ${params.rev.toUpperCase()}.`);
   const [rows, review] = await Promise.all([revisionBlocks([revision.id]), revisionReview(revision.id)]);
   const integrity = await checkIntegrity(revision, rows, review.stamp?.contentHash ?? null);
-  return Response.json({
+  return resultsJson({
     sheet: sheet.label,
     title: sheet.title,
     project: sheet.projectCode,

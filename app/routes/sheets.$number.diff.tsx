@@ -1,5 +1,6 @@
 import { Link, useLoaderData } from "react-router";
 import type { Route } from "./+types/sheets.$number.diff";
+import { HardwareCaution } from "~/components/caution";
 import { PageHeader } from "~/components/empty-state";
 import { ScrollRegion } from "~/components/scroll-region";
 import { diffRevisions, type DiffBlock } from "~/lib/sheets/diff";
@@ -49,6 +50,9 @@ export default function SheetDiff() {
         {sourceChanged ? " The text of the sheet differs too." : " The text is identical."}
         {from.engineVersion !== to.engineVersion ? ` Engine ${from.engineVersion} → ${to.engineVersion}.` : ""}
       </p>
+      <div className="mt-4">
+        <HardwareCaution compact />
+      </div>
       <ul className="mt-6 space-y-4">
         {changes.map((c) => (
           <li key={c.blockId} className={`panel p-4 ${c.kind === "unchanged" ? "border-dashed" : "border-l-4 border-l-copper"}`}>

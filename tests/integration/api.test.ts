@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { createApiKey, signUpWithTeam, Visitor } from "../support/http";
 import { expectClose } from "../support/tolerance";
+import { HARDWARE_CAUTION } from "../../app/lib/cautions";
 
 const evaluatePath = (id: string) => `/api/v1/calculators/${id}/evaluate`;
 
@@ -79,7 +80,7 @@ describe("engine API", () => {
     const response = await engineer.postJson("/api/v1/evaluate", {
       blocks: [
         { id: "f1", calculator: "lc-filter", inputs: { l: "1 mH", c: "10 uF", rLoad: "10 ohm", fsw: "20 kHz", vout: "=qs1.v1Rms" } },
-        { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg" } },
+        { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg" } },
         { id: "a", calculator: "formula", inputs: { expr: "b.value * 2" } },
         { id: "b", calculator: "formula", inputs: { expr: "a.value + 1 V" } },
       ],
@@ -146,5 +147,23 @@ describe("stable revision links", () => {
     expect((await new Visitor().get("/api/v1/sheets/CS-0002/revisions/B")).status).toBe(401);
     const outsider = await signUpWithTeam("revision-outsider");
     expect((await outsider.visitor.get("/api/v1/sheets/CS-0002/revisions/B")).status).toBe(404);
+  });
+
+  it("sends the safety caution with every answer that carries results, and not with errors", async () => {
+    const viewer = await new Visitor().signIn("viewer@example.com");
+    const answers = {
+      calculator: await viewer.postJson(evaluatePath("quasi-square"), { inputs: { vdc: "48 V", alpha: "30 deg" } }),
+      sheet: await viewer.postJson("/api/v1/evaluate", { blocks: [{ id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V" } }] }),
+      revision: await viewer.get("/api/v1/sheets/CS-0002/revisions/B"),
+      blocks: await viewer.get("/api/v1/blocks?calculator=lc-filter&field=f0&min=1%20kHz&max=3%20kHz"),
+      attachments: await viewer.get("/api/v1/sheets/CS-0002/attachments"),
+    };
+    for (const [name, response] of Object.entries(answers)) {
+      expect(response.status, name).toBe(200);
+      expect((await response.json()).caution, name).toBe(HARDWARE_CAUTION);
+    }
+    expect(HARDWARE_CAUTION).toMatch(/can kill/);
+    const refused = await (await viewer.postJson(evaluatePath("quasi-square"), { inputs: { alpha: "5 V" } })).json();
+    expect(refused.caution).toBeUndefined();
   });
 });
