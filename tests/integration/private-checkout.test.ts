@@ -47,7 +47,7 @@ describe("the private PostgreSQL from a checkout in a private folder", () => {
     await client.connect();
     try {
       const { rows } = await client.query<{ answer: number }>("select 1 + 1 as answer");
-      expect(rows[0].answer).toBe(2);
+      expect(rows[0]?.answer).toBe(2);
     } finally {
       await client.end();
     }
