@@ -51,7 +51,7 @@ export default function Calculators() {
       <p className="max-w-3xl text-ink-soft">
         Every calculator a calc sheet can hold, with its inputs, outputs, formulas, conventions and published sources. Type
         quantities as you would write them — <code>48 V</code>, <code>4.7 uF</code>, <code>2.2mH</code>, <code>20 kHz</code>,{" "}
-        <code>23°</code>; a bare number takes the unit shown. Any input may instead reference another block's result, such as{" "}
+        <code>30°</code>; a bare number takes the unit shown. Any input may instead reference another block's result, such as{" "}
         <code>=qs1.v1Rms</code>.
       </p>
       <section aria-labelledby="thd-heading" className="panel mt-6 max-w-3xl p-5">

@@ -2,6 +2,8 @@ import { Link, useLoaderData } from "react-router";
 import type { Route } from "./+types/home";
 import { Wordmark } from "~/components/brand-mark";
 import { HardwareCaution } from "~/components/caution";
+import { VerificationStamp } from "~/components/verification-stamp";
+import { ENGINE_VERSION } from "~/lib/calc/version";
 import { getSignedIn } from "~/.server/access";
 
 export const meta: Route.MetaFunction = () => [
@@ -78,20 +80,20 @@ export default function Home() {
           </div>
           <figure className="panel relative self-start p-5 font-serif shadow-[6px_6px_0_var(--color-rule)]" aria-label="A calc sheet excerpt">
             <div className="flex items-start justify-between border-b border-rule pb-3 font-sans text-xs text-ink-faint">
-              <span>SW-0042 · Rev B</span>
+              <span>CS-0042 · Rev B</span>
               <span>Output stage, 48 V battery inverter</span>
             </div>
             <p className="mt-4 text-[15px] leading-relaxed">
-              With a zero interval of α = 23° at each edge, the quasi-square output's third-harmonic content falls while the
-              fundamental keeps most of the square wave's amplitude.
+              With a zero interval of α = 30° at each edge, the quasi-square output loses its third harmonic and every odd
+              multiple of it, while the fundamental keeps 87 % of the square wave's amplitude.
             </p>
             <table className="mt-4 w-full font-sans text-sm">
               <caption className="sr-only">Example results</caption>
               <tbody>
                 {[
-                  ["Output RMS", "41.4 V"],
-                  ["Fundamental RMS", "39.8 V"],
-                  ["THD (all orders)", "29.0 %"],
+                  ["Output RMS", "39.2 V"],
+                  ["Fundamental RMS", "37.4 V"],
+                  ["THD (all orders)", "31.1 %"],
                 ].map(([label, value]) => (
                   <tr key={label} className="border-b border-rule last:border-0">
                     <th scope="row" className="py-1.5 text-left font-normal text-ink-soft">
@@ -102,10 +104,9 @@ export default function Home() {
                 ))}
               </tbody>
             </table>
-            <figcaption className="mt-4 flex items-center gap-3 font-sans text-xs text-ink-faint">
-              <span className="rounded border-2 border-verified px-2 py-1 font-semibold uppercase tracking-wider text-verified">Verified</span>
-              checked by a second engineer · bound to content hash 3f9a…c21e
-            </figcaption>
+            <div className="mt-4 font-sans">
+              <VerificationStamp checkerName="a second engineer" date="2026-11-30" contentHash="3f9a61d07c21e" engineVersion={ENGINE_VERSION} valid />
+            </div>
           </figure>
         </section>
         <section aria-labelledby="what-heading" className="border-t border-rule bg-sheet">

@@ -13,7 +13,7 @@ import { evaluateCalculator, evaluateSheet, type SheetBlock } from "../../app/li
 // Invented demo design: a 48 V → 230 V, 1 kW inverter worked through on one sheet.
 const sheet: SheetBlock[] = [
   { id: "link", calculator: "formula", inputs: { expr: "48 V" } },
-  { id: "qs", calculator: "quasi-square", inputs: { vdc: "=link.value", alpha: "23 deg", f: "50 Hz", hmax: "49" } },
+  { id: "qs", calculator: "quasi-square", inputs: { vdc: "=link.value", alpha: "30 deg", f: "50 Hz", hmax: "49" } },
   { id: "stair", calculator: "stepped-wave", inputs: { vdc: "=link.value", angles: "9.59 deg, 30 deg, 56.44 deg" } },
   { id: "sixstep", calculator: "six-step", inputs: { vdc: "400 V" } },
   { id: "pwm", calculator: "spwm", inputs: { vdc: "400 V", ma: "0.8", mf: "41", scheme: "unipolar", bridge: "full", hmax: "200" } },

@@ -105,7 +105,7 @@ try {
       headers: { authorization: `Bearer ${apiKey}`, "content-type": "application/json" },
       body: JSON.stringify({
         blocks: [
-          { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg" } },
+          { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg" } },
           { id: "f1", calculator: "lc-filter", inputs: { l: "1 mH", c: "10 uF", rLoad: "10 ohm", fsw: "20 kHz", vout: "=qs1.v1Rms" } },
         ],
       }),

@@ -73,7 +73,7 @@ const BLOCK_TEMPLATES: (() => { calculator: string; parsedInputs: Record<string,
     const f0 = 1 / (2 * Math.PI * Math.sqrt(l * c));
     return { calculator: "lc-filter", parsedInputs: { l, c, fsw: pick([10e3, 16e3, 20e3, 40e3]), rLoad: pick([8, 10, 52.9]) }, results: { f0: { value: f0, unit: "Hz", display: "" } } };
   },
-  () => ({ calculator: "quasi-square", parsedInputs: { vdc: pick([12, 24, 48, 400]), alpha: pick([15, 18, 23, 30]) }, results: { thd: { value: 29 + random() * 5, unit: "%", display: "" } } }),
+  () => ({ calculator: "quasi-square", parsedInputs: { vdc: pick([12, 24, 48, 400]), alpha: pick([15, 18, 30, 36]) }, results: { thd: { value: 29 + random() * 5, unit: "%", display: "" } } }),
   () => ({ calculator: "dc-link", parsedInputs: { p: pick([500, 1000, 3000]), vdc: pick([48, 200, 400]), rippleVpp: pick([2, 5, 8]), f: 50 }, results: {} }),
 ];
 

@@ -54,7 +54,7 @@ report("spwm compute, h ≤ 500, ma 0.8, mf 20.5 (asynchronous)", measure(() => 
 report("spwm compute, h ≤ 500, ma 1.3, mf 21 (overmodulation)", measure(() => spwm.compute(spwmInputs({ ma: 1.3 }), context), 2000));
 report("spwm compute, h ≤ 500, ma 1.0, mf 3 (worst-case folding)", measure(() => spwm.compute(spwmInputs({ ma: 1, mf: 3 }), context), 1000));
 report("spwm Bessel sideband sums only, h ≤ 500, mf 21", measure(() => closedFormSpectrum(0.8, 21, "bipolar", 500), 3000));
-report("quasi-square compute, h ≤ 500", measure(() => quasiSquare.compute({ vdc: 48, alpha: 23, f: 50, hmax: 500 }, context), 3000));
+report("quasi-square compute, h ≤ 500", measure(() => quasiSquare.compute({ vdc: 48, alpha: 30, f: 50, hmax: 500 }, context), 3000));
 
 console.log("");
 const points = 2 ** 16;
@@ -71,7 +71,7 @@ report(
 report(
   "FFT cross-check, quasi-square, 2^16 points (synthesis + FFT + lines)",
   measure(() => {
-    const alpha = (23 * Math.PI) / 180;
+    const alpha = (30 * Math.PI) / 180;
     return sampledSpectrum((t) => {
       const inHalf = t % Math.PI;
       const on = inHalf > alpha && inHalf < Math.PI - alpha ? 1 : 0;

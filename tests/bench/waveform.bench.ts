@@ -26,7 +26,7 @@ const folder = await mkdtemp(path.join(tmpdir(), "sinewright-bench-"));
 try {
   const capture = path.join(folder, "capture.csv");
   const writer = createWriteStream(capture);
-  const alpha = (23 * Math.PI) / 180;
+  const alpha = (30 * Math.PI) / 180;
   for (const chunk of captureCsvChunks({
     sampleRate: 1_000_000,
     samples: SAMPLES,

@@ -12,13 +12,13 @@ afterAll(async () => {
   await session?.close();
 });
 
-// An invented bench capture: a 48 V quasi-square output at α = 23°, with probe noise.
+// An invented bench capture: a 48 V quasi-square output at α = 30°, with probe noise.
 const capture = captureCsv({
   sampleRate: 50_000,
   samples: 10_000,
   seed: 77,
   preamble: ["Invented bench export"],
-  channels: [{ name: "Vout", unit: "V", valueAt: quasiSquare(48, (23 * Math.PI) / 180, 50, 0.4), noise: 0.2 }],
+  channels: [{ name: "Vout", unit: "V", valueAt: quasiSquare(48, (30 * Math.PI) / 180, 50, 0.4), noise: 0.2 }],
 });
 
 describe("measuring a capture in the browser", () => {
@@ -31,10 +31,10 @@ describe("measuring a capture in the browser", () => {
     await page.waitForURL(/\/sheets\/CS-\d{4}\/edit$/);
     const label = new URL(page.url()).pathname.split("/")[2]!;
 
-    await page.getByLabel("Attach a file").setInputFiles({ name: "bench-23deg.csv", mimeType: "text/csv", buffer: Buffer.from(capture) });
+    await page.getByLabel("Attach a file").setInputFiles({ name: "bench-30deg.csv", mimeType: "text/csv", buffer: Buffer.from(capture) });
     await expect.poll(() => page.getByRole("status").filter({ hasText: "is attached" }).count(), { timeout: 20_000 }).toBe(1);
     // The list shows the capture with its analysed channel and a download link.
-    await expect.poll(() => page.getByRole("link", { name: "bench-23deg.csv" }).count()).toBeGreaterThan(0);
+    await expect.poll(() => page.getByRole("link", { name: "bench-30deg.csv" }).count()).toBeGreaterThan(0);
 
     const editor = page.locator(".cm-content");
     await editor.click();
@@ -42,9 +42,9 @@ describe("measuring a capture in the browser", () => {
     await page.keyboard.type("## Bench\n");
     await page.getByRole("button", { name: /Quasi-square wave/ }).click();
     const qs1 = page.locator('section[data-block-id="qs1"]');
-    await qs1.getByLabel(/Zero interval/).fill("23 deg");
+    await qs1.getByLabel(/Zero interval/).fill("30 deg");
     await qs1.getByLabel(/DC-link voltage/).fill("48 V");
-    await page.getByRole("button", { name: /bench-23deg\.csv/ }).click();
+    await page.getByRole("button", { name: /bench-30deg\.csv/ }).click();
 
     const measured = page.locator('section[data-block-id="m1"]');
     await expect.poll(() => measured.textContent(), { timeout: 20_000 }).toContain("Matches qs1 within tolerance");

@@ -22,7 +22,7 @@ const pathValue = fc
   .oneof(fc.string({ minLength: 1, maxLength: 30 }), fc.string({ unit: "grapheme", minLength: 1, maxLength: 10 }), fc.constantFrom("CS-0001", "CS-99999", "quasi-square", "A", "Z", "0", "%"))
   .filter((value) => value !== "." && value !== "..");
 /** JSON in the shapes the API expects, with random leaves, and plain random JSON. */
-const leaf = fc.oneof(fc.string({ maxLength: 30 }), fc.double(), fc.integer(), fc.boolean(), fc.constant(null), fc.constantFrom("48 V", "23 deg", "=qs1.v1Rms", "1e308 V"));
+const leaf = fc.oneof(fc.string({ maxLength: 30 }), fc.double(), fc.integer(), fc.boolean(), fc.constant(null), fc.constantFrom("48 V", "30 deg", "=qs1.v1Rms", "1e308 V"));
 const jsonBody = fc.oneof(
   fc.jsonValue({ maxDepth: 4 }),
   fc.record({ inputs: fc.dictionary(fc.constantFrom("vdc", "alpha", "l", "c", "fsw", "vout", "m"), leaf) }, { requiredKeys: [] }),

@@ -160,7 +160,7 @@ describe("SIGTERM while requests are in flight", () => {
     const server = await spawnServer({ DATABASE_URL: process.env.DATABASE_URL, BETTER_AUTH_SECRET: testSecret(), SMTP_URL: `smtp://127.0.0.1:${await freePort()}`, RATE_LIMITS: "off", LOG_LEVEL: "info" });
     try {
       const cookie = await signUpWithTeamThroughApi(server.url, "sigterm");
-      const body = JSON.stringify({ blocks: [{ id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg" } }] });
+      const body = JSON.stringify({ blocks: [{ id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg" } }] });
       const { port } = new URL(server.url);
       // A request whose body is still arriving when the signal comes.
       const inFlight = http.request({ host: "127.0.0.1", port, method: "POST", path: "/api/v1/evaluate", headers: { cookie, "content-type": "application/json", "content-length": Buffer.byteLength(body) } });

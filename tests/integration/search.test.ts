@@ -95,7 +95,7 @@ beforeAll(async () => {
     title: "Backup supply stepped wave",
     projectId: ups!.id,
     tags: ["ups"],
-    source: `The battery link feeds a push-pull stage.\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" />\n`,
+    source: `The battery link feeds a push-pull stage.\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" />\n`,
   });
   ids.groundPower = await sheet(larkA, {
     title: "Ground power output stage",
@@ -112,7 +112,7 @@ beforeAll(async () => {
   ids.otherTeam = await sheet(other, {
     title: "Output filter for the pump inverter",
     tags: ["output"],
-    source: `Resonance damping, the same words in another firm.\n\n<LcFilter id="lc1" l="1 mH" c="10 uF" rLoad="10 ohm" fsw="20 kHz" />\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" />\n`,
+    source: `Resonance damping, the same words in another firm.\n\n<LcFilter id="lc1" l="1 mH" c="10 uF" rLoad="10 ohm" fsw="20 kHz" />\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" />\n`,
     verify: true,
   });
   await drainSearchCopies();
@@ -206,7 +206,7 @@ describe.each(engines.slice(0, 2))("values named by their input on %s", (_name, 
 describe("search rows from an older version", () => {
   it("are rebuilt at start, and until then values are found by the words as typed", async () => {
     const t = await team("Upgraded Drives");
-    const made = await sheet(t, { title: "Battery stage before the upgrade", source: `<QuasiSquare id="qs1" vdc="36 V" alpha="23 deg" />\n` });
+    const made = await sheet(t, { title: "Battery stage before the upgrade", source: `<QuasiSquare id="qs1" vdc="36 V" alpha="30 deg" />\n` });
     // As an older version wrote it: no named values, an older text version.
     await db().execute(sql`update search_document set text_version = 1, block_values = regexp_replace(block_values, '\\m(vdc|alpha|quasisquare)[0-9.]+\\S*', '', 'g') where sheet_id = ${made.id}`);
     const engine = new PostgresSearchEngine();
@@ -239,7 +239,7 @@ describe("search through the app", () => {
     await fake.close();
     const base = await latestRevisionOf(ids.steppedWave!.id);
     const saved = await saveRevision(larkA.asAuthor, { id: ids.steppedWave!.id, latestRevisionId: base }, {
-      source: `The battery link feeds a push-pull stage through a zircon-potted transformer.\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" />\n`,
+      source: `The battery link feeds a push-pull stage through a zircon-potted transformer.\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" />\n`,
       baseRevisionId: base,
       note: "transformer potting",
     });

@@ -8,7 +8,7 @@ const SOURCE = `## Output stage
 
 The bridge runs quasi-square with a zero interval $\\alpha$ at each edge.
 
-<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" />
+<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" />
 
 $$V_{1,rms} = \\frac{2\\sqrt{2}}{\\pi} V_{dc} \\cos\\alpha$$
 
@@ -55,7 +55,7 @@ describe("calc sheets: saving revisions", () => {
     expect(rows[0]!.content_hash).toMatch(/^[0-9a-f]{64}$/);
     // The stored results are the engine's, computed on the server from the typed inputs.
     const engine = evaluateSheet([
-      { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg" } },
+      { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg" } },
       { id: "lc1", calculator: "lc-filter", inputs: { l: "1 mH", c: "10 uF", rLoad: "10 ohm", fsw: "20 kHz", f: "50 Hz", vout: "=qs1.v1Rms" } },
     ]);
     const engineLc = engine.blocks.lc1!;
@@ -81,8 +81,8 @@ describe("calc sheets: saving revisions", () => {
     expect((await save(visitor, label, SOURCE, null)).status).toBe(302);
     const base = await latestRevisionId(label, "Team concurrent");
     // Two editors opened revision A; the first saves B.
-    expect((await save(visitor, label, SOURCE.replace("23 deg", "25 deg"), base)).status).toBe(302);
-    const stale = await save(visitor, label, SOURCE.replace("23 deg", "30 deg"), base, "my change");
+    expect((await save(visitor, label, SOURCE.replace("30 deg", "25 deg"), base)).status).toBe(302);
+    const stale = await save(visitor, label, SOURCE.replace("30 deg", "36 deg"), base, "my change");
     expect(stale.status).toBe(409);
     expect(await stale.text()).toContain("Revision B was saved after you opened this sheet");
     const revisions = await serverQuery<{ label: string }>(
@@ -91,7 +91,7 @@ describe("calc sheets: saving revisions", () => {
     expect(revisions.map((r) => r.label)).toEqual(["A", "B"]);
     const editor = await (await visitor.get(`/sheets/${label}/edit`)).text();
     expect(editor).toContain("Restored your unsaved draft");
-    expect(editor).toContain("30 deg");
+    expect(editor).toContain("36 deg");
   });
 
   it("lets a viewer read sheets but refuses their save, their new sheet and their project with 403", async () => {

@@ -5,7 +5,7 @@
  * `unit` is always the SI unit a result carries (V, A, Hz, F, H, ohm, W, J, s,
  * deg, degC, K/W, %, dB, or "" for a pure number); the prefix is chosen here.
  * Percent, decibels, angles, temperatures and thermal resistances are never
- * prefixed: "5.00 %", "-43.9 dB", "23.0°", "25.0 °C", "1.50 K/W".
+ * prefixed: "5.00 %", "-43.9 dB", "30.0°", "25.0 °C", "1.50 K/W".
  */
 import type { ScalarResult } from "./types";
 

@@ -4,7 +4,7 @@
  * A calculator declares its inputs (with dimension, SI unit, range and default),
  * its outputs, its formulas as LaTeX for display, its conventions and its
  * published sources, and a `compute` that works in plain SI numbers.
- * Parsing and validating the strings an engineer types ("4.7 uF", "23°")
+ * Parsing and validating the strings an engineer types ("4.7 uF", "30°")
  * happens once, at the edge, in `inputs.ts`; `compute` never sees strings.
  */
 

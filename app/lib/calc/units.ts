@@ -1,6 +1,6 @@
 /**
  * The one way Sinewright reads a quantity an engineer typed ("48 V", "4.7 µF",
- * "20kHz", "23°", "1.5 K/W") and turns it into a plain SI number.
+ * "20kHz", "30°", "1.5 K/W") and turns it into a plain SI number.
  *
  * Units are read by a lean mathjs instance holding only the factories the engine
  * uses (units, arithmetic, a handful of functions and the expression parser for
@@ -134,7 +134,7 @@ const DIMENSION_WORDS: Record<Dimension, { noun: string; example: string }> = {
   power: { noun: "a power", example: "1.5 kW" },
   energy: { noun: "an energy", example: "120 uJ" },
   time: { noun: "a time", example: "50 ns" },
-  angle: { noun: "an angle", example: "23 deg" },
+  angle: { noun: "an angle", example: "30 deg" },
   temperature: { noun: "a temperature", example: "25 degC" },
   thermalResistance: { noun: "a thermal resistance", example: "1.5 K/W" },
   dimensionless: { noun: "a pure number", example: "0.8" },

@@ -30,7 +30,7 @@ export interface AttributeSpan {
   valueEnd: number;
 }
 
-/** One calculator block as written in the source: `<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" />`. */
+/** One calculator block as written in the source: `<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" />`. */
 export interface SourceBlock {
   /** The author's block id (the `id` attribute), unique in the sheet; referenced as `=id.output`. */
   id: string;
@@ -49,7 +49,7 @@ export interface SourceBlock {
   attributes: Record<string, AttributeSpan>;
 }
 
-/** A citation of a calc-sheet revision in a project document: `<Cite sheet="SW-0001" rev="B" />`. */
+/** A citation of a calc-sheet revision in a project document: `<Cite sheet="CS-0001" rev="B" />`. */
 export interface SourceCitation {
   sheet: string;
   rev: string;

@@ -138,7 +138,7 @@ function scopedAndSpelled(scopes: string[], value: number, unit: string): string
 }
 
 /**
- * One line per block: "qs1 · Quasi-square (quasi-square): vdc 48 V, alpha 23 deg →
+ * One line per block: "qs1 · Quasi-square (quasi-square): vdc 48 V, alpha 30 deg →
  * thd 29.01 %", then SPELLINGS_MARK and each value in the spellings people type.
  * Inputs referencing another block (`=qs1.v1Rms`) contribute their computed value.
  */

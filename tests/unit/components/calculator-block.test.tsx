@@ -33,7 +33,7 @@ function renderBlock(blocks: Block[], id: string, editable: boolean): string {
   return render(<CalculatorBlock blockId={block.id} calculatorId={block.calculator} inputs={block.inputs} outcome={evaluation.blocks[id]} editable={editable} />);
 }
 
-const quasiSquare: Block = { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg", f: "50 Hz" } };
+const quasiSquare: Block = { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg", f: "50 Hz" } };
 
 describe("a quasi-square block, editable", () => {
   const html = renderBlock([quasiSquare], "qs1", true);
@@ -57,20 +57,22 @@ describe("a quasi-square block, editable", () => {
   });
 
   it("shows the results in engineering notation beside their labels", () => {
-    // 48 V, α = 23°: V1 = 4·48/π·cos 23° = 56.3 V peak, 39.8 V RMS.
-    expect(text).toMatch(/Fundamental peak v1Peak 56\.3 V/);
-    expect(text).toMatch(/Fundamental RMS v1Rms 39\.8 V/);
-    expect(text).toMatch(/THD, all harmonics thd 29\.0 %/);
+    // Derived from V_n = (4·Vdc/nπ)·cos nα (Rashid, Power Electronics, 3rd ed., §6.6 — published; section from memory):
+    // 48 V, α = 30°: V1 = 4·48/π·cos 30° = 52.9 V peak, 37.4 V RMS; THD = √(π²/9 − 1) = 31.1 % (derived: Vrms² = ⅔·Vdc²).
+    expect(text).toMatch(/Fundamental peak v1Peak 52\.9 V/);
+    expect(text).toMatch(/Fundamental RMS v1Rms 37\.4 V/);
+    expect(text).toMatch(/THD, all harmonics thd 31\.1 %/);
+    // Least THD where (π − 2α)·tan α = 1: 23.218° (derived; the engine's computed result).
     expect(text).toMatch(/α for least THD alphaMinThd 23\.2°/);
   });
 
   it("captions the waveform and the spectrum with their facts", () => {
     expect(text).toContain("Output voltage, one cycle. Angle 0–360° against voltage; the output steps between -48.0 V, 0 V, 48.0 V.");
-    expect(text).toMatch(/Harmonic spectrum\. Each harmonic's amplitude in % of the fundamental, orders 3–49; the largest is order 7 at 14\.7 %\./);
+    expect(text).toMatch(/Harmonic spectrum\. Each harmonic's amplitude in % of the fundamental, orders 3–49; the largest is order 5 at 20\.0 %\./);
     expect(text).toContain("The fundamental (100 %) is left off the bars");
   });
 
-  it("sends the waveform already drawn: one cycle stepping 0, +48 V, 0, −48 V, leaving zero at α = 23°", () => {
+  it("sends the waveform already drawn: one cycle stepping 0, +48 V, 0, −48 V, leaving zero at α = 30°", () => {
     const charts = drawnCharts(html);
     expect(charts).toHaveLength(2);
     const [waveform] = charts;
@@ -84,9 +86,9 @@ describe("a quasi-square block, editable", () => {
     expect(trace[0]).toEqual({ x: plot.x, y: zero });
     expect(trace[trace.length - 1]!.x).toBeCloseTo(plot.x + plot.width, 1);
     const firstRise = trace.find((p) => p.y === high)!;
-    expect(firstRise.x).toBeCloseTo(plot.x + (23 / 360) * plot.width, 1);
+    expect(firstRise.x).toBeCloseTo(plot.x + (30 / 360) * plot.width, 1);
     const firstFall = trace.find((p) => p.y === low)!;
-    expect(firstFall.x).toBeCloseTo(plot.x + ((180 + 23) / 360) * plot.width, 1);
+    expect(firstFall.x).toBeCloseTo(plot.x + ((180 + 30) / 360) * plot.width, 1);
   });
 
   it("prints the trace in hundredths, so the browser's copy of the chart library reproduces the server's path and hydration matches", () => {
@@ -95,20 +97,22 @@ describe("a quasi-square block, editable", () => {
     for (const n of numbers) expect(n, n).toMatch(/^-?\d+(\.\d{1,2})?$/);
   });
 
-  it("sends the spectrum already drawn: a bar per harmonic order, the tallest over order 7", () => {
+  it("sends the spectrum already drawn: a bar per harmonic present, the tallest over order 5", () => {
     const spectrum = drawnCharts(html)[1]!;
     const drawn = bars(spectrum);
-    // Orders 3, 5, …, 49 of the harmonics table, without the fundamental.
-    expect(drawn).toHaveLength(24);
+    // Orders 3, 5, …, 49 without the fundamental, less the eight that α = 30° removes (3, 9, …, 45: cos 3kα = 0, derived).
+    expect(drawn).toHaveLength(24 - 8);
     const tallest = drawn.reduce((a, b) => (b.height > a.height ? b : a));
-    const seven = xTicks(spectrum).find((t) => t.label === "7")!;
-    expect(tallest.x + tallest.width / 2).toBeCloseTo(seven.x, 0);
+    // The axis labels every other odd order (3, 7, 11, …): order 5 sits halfway between 3 and 7.
+    const tick = (label: string) => xTicks(spectrum).find((t) => t.label === label)!.x;
+    expect(tallest.x + tallest.width / 2).toBeCloseTo((tick("3") + tick("7")) / 2, 0);
   });
 
   it("folds the full harmonics list into a table with peak, RMS and percent", () => {
     expect(html).toMatch(/<details[^>]*>\s*<summary[^>]*>Harmonics table/);
     expect(text).toContain("n Frequency Peak RMS % of fundamental");
-    expect(text).toMatch(/7 350 Hz 8\.26 V 5\.84 V 14\.7 %/);
+    // Order 7: (4·48/7π)·|cos 210°| = 7.56 V peak, 5.35 V RMS, 1/7 = 14.3 % of the fundamental (derived).
+    expect(text).toMatch(/7 350 Hz 7\.56 V 5\.35 V 14\.3 %/);
   });
 
   it("carries the lethal-voltage caution", () => {
@@ -185,7 +189,7 @@ describe("a block that fails", () => {
     const sheet: Block[] = [quasiSquare, { id: "dc2", calculator: "dc-link", inputs: { p: "1 kW", vdc: "=qs9.v1Rms", rippleVpp: "4 V" } }];
     const broken = textOf(renderBlock(sheet, "dc2", true));
     expect(broken).toMatch(/DC-link voltage \(vdc\): there is no block "qs9" on this sheet/);
-    expect(textOf(renderBlock(sheet, "qs1", true))).toMatch(/Fundamental RMS v1Rms 39\.8 V/);
+    expect(textOf(renderBlock(sheet, "qs1", true))).toMatch(/Fundamental RMS v1Rms 37\.4 V/);
   });
 });
 
@@ -198,9 +202,12 @@ describe("a harmonic-limits block", () => {
     );
     const text = textOf(html);
     expect(text).toMatch(/Verdict \(estimate\): Over — 6 of 24 orders over the limit; THD over its limit\./);
-    expect(text).toContain("THD 27.9 % against a limit of 8.00 %.");
-    // Third harmonic of the 23° quasi-square wave is 13.0 % against the 5 % individual limit.
-    expect(text).toMatch(/3 Over 13\.0 % 5\.00 % -7\.98 %/);
+    // THD to order 50 of the 30° wave: 30.0 % (derived from the series); limit 8.0 % (IEEE Std 519-2014, Table 1, ≤ 1 kV — published).
+    expect(text).toContain("THD 30.0 % against a limit of 8.00 %.");
+    // The 5th of the 30° wave is 1/5 = 20.0 % (derived) against the 5.0 % individual limit (IEEE Std 519-2014, Table 1 — published);
+    // the 3rd is gone (cos 90° = 0) and passes.
+    expect(text).toMatch(/5 Over 20\.0 % 5\.00 % -15\.0 %/);
+    expect(text).toMatch(/3 Pass 0 % 5\.00 % 5\.00 %/);
     expect(text).toContain("Limits from IEEE Std 519, 2014, Table 1");
     expect(text).toContain("Engineering estimate — compliance is established by accredited testing and the utility's interconnection rules.");
     expect(text).not.toContain("Unverified");
@@ -230,13 +237,13 @@ describe("read-only", () => {
     expect(html).not.toMatch(/<(input|select|textarea)\b/);
     expect(text).toMatch(/DC-link voltage vdc 48 V/);
     expect(text).toMatch(/hmax 49 \(default\)/);
-    expect(text).toMatch(/Fundamental RMS v1Rms 39\.8 V/);
+    expect(text).toMatch(/Fundamental RMS v1Rms 37\.4 V/);
   });
 
   it("shows a referenced input with the value it resolved to", () => {
     const blocks: Block[] = [quasiSquare, { id: "qs2", calculator: "quasi-square", inputs: { vdc: "=qs1.v1Peak", alpha: "30 deg" } }];
     const readOnly = textOf(renderBlock(blocks, "qs2", false));
-    expect(readOnly).toMatch(/DC-link voltage vdc =qs1\.v1Peak → 56\.3 V/);
+    expect(readOnly).toMatch(/DC-link voltage vdc =qs1\.v1Peak → 52\.9 V/);
   });
 });
 

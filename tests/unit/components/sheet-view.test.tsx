@@ -21,9 +21,9 @@ function sheetTree(): Root {
     children: [
       element("h2", {}, [text("Output stage")]),
       element("p", {}, [text("The fundamental is "), element("span", { className: ["math-inline"] }, [text("V_1 = \\frac{4 V_{dc}}{\\pi}\\cos\\alpha")]), text(".")]),
-      element("QuasiSquare", { id: "qs1", vdc: "48 V", alpha: "23 deg" }),
+      element("QuasiSquare", { id: "qs1", vdc: "48 V", alpha: "30 deg" }),
       element("div", { className: ["math-display"] }, [text("\\mathrm{THD} = \\frac{\\sqrt{V_{rms}^2 - V_{1,rms}^2}}{V_{1,rms}}")]),
-      element("p", {}, [text("The DC link is sized in "), element("Cite", { sheet: "SW-0001", rev: "B" }), text(".")]),
+      element("p", {}, [text("The DC link is sized in "), element("Cite", { sheet: "CS-0001", rev: "B" }), text(".")]),
       element("Caution", {}, [element("p", {}, [text("Discharge the DC link before touching the bridge.")])]),
       element("DcLink", { id: "dc1", p: "1.5 kg", vdc: "400 V", rippleVpp: "4 V" }),
       element("LcFilter", { id: "lc1", l: "2.2 mH", c: "10 uF", fsw: "20 kHz" }),
@@ -33,7 +33,7 @@ function sheetTree(): Root {
 }
 
 const inputsById = {
-  qs1: { vdc: "48 V", alpha: "23 deg" },
+  qs1: { vdc: "48 V", alpha: "30 deg" },
   dc1: { p: "1.5 kg", vdc: "400 V", rippleVpp: "4 V" },
   lc1: { l: "2.2 mH", c: "10 uF", fsw: "20 kHz" },
 };
@@ -60,7 +60,8 @@ describe("the sheet view", () => {
 
   it("renders each calculator element as its block, wired to its inputs and results", () => {
     expect(page).toContain("qs1 · Quasi-square wave");
-    expect(page).toMatch(/Fundamental RMS v1Rms 39\.8 V/);
+    // 4·48/π·cos 30°/√2 = 37.4 V (derived from V_n = (4·Vdc/nπ)·cos nα, Rashid, 3rd ed., §6.6 — published).
+    expect(page).toMatch(/Fundamental RMS v1Rms 37\.4 V/);
     expect(attribute(controlLabelled(html, "DC-link voltage")!, "value")).toBe("48 V");
     expect(page).toContain("lc1 · LC output filter");
     expect(page).toContain("the switching frequency fsw = 20.0 kHz");
@@ -77,8 +78,8 @@ describe("the sheet view", () => {
   });
 
   it("shows a citation as plain text until citation targets are given", () => {
-    expect(page).toContain("The DC link is sized in SW-0001 rev B.");
-    expect(html).not.toContain("/sheets/SW-0001");
+    expect(page).toContain("The DC link is sized in CS-0001 rev B.");
+    expect(html).not.toContain("/sheets/CS-0001");
   });
 
   it("links a citation to its revision, numbers it, and shows its state when the page knows it", () => {
@@ -87,16 +88,16 @@ describe("the sheet view", () => {
         tree={sheetTree()}
         inputsById={inputsById}
         evaluation={evaluation}
-        citations={{ "SW-0001@B": { title: "DC-link sizing", state: "superseded", words: "superseded by revision C (verified)", href: "/sheets/SW-0001/revisions/B", reference: 2 } }}
+        citations={{ "CS-0001@B": { title: "DC-link sizing", state: "superseded", words: "superseded by revision C (verified)", href: "/sheets/CS-0001/revisions/B", reference: 2 } }}
       />,
     );
-    const link = cited.match(/<a href="\/sheets\/SW-0001\/revisions\/B"[^>]*>[\s\S]*?<\/a>/)?.[0] ?? "";
-    expect(textOf(link)).toBe("SW-0001 rev B");
+    const link = cited.match(/<a href="\/sheets\/CS-0001\/revisions\/B"[^>]*>[\s\S]*?<\/a>/)?.[0] ?? "";
+    expect(textOf(link)).toBe("CS-0001 rev B");
     expect(link).toContain('title="DC-link sizing: superseded by revision C (verified)"');
-    expect(textOf(cited)).toMatch(/SW-0001 rev B\s*\[2\]\s*⇡\s*Superseded/);
+    expect(textOf(cited)).toMatch(/CS-0001 rev B\s*\[2\]\s*⇡\s*Superseded/);
     expect(cited).toContain('href="#ref-2"');
     const missing = render(<SheetView tree={sheetTree()} inputsById={inputsById} evaluation={evaluation} citations={{}} />);
-    expect(textOf(missing)).toContain("SW-0001 rev B (not found)");
+    expect(textOf(missing)).toContain("CS-0001 rev B (not found)");
   });
 
   it("read-only, it shows no form controls at all", () => {

@@ -17,7 +17,7 @@ describe("a realistic sheet", () => {
         id: "qs1",
         calculator: "quasi-square",
         component: "QuasiSquare",
-        inputs: { vdc: "48 V", alpha: "23 deg", f: "50 Hz" },
+        inputs: { vdc: "48 V", alpha: "30 deg", f: "50 Hz" },
         line: 9,
         column: 1,
       },
@@ -42,7 +42,7 @@ describe("a realistic sheet", () => {
 
   it("renders blocks and the caution as named elements carrying the author's strings", () => {
     const elements = elementsOf(checked.tree);
-    expect(elements.find((e) => e.tagName === "QuasiSquare")?.properties).toEqual({ id: "qs1", vdc: "48 V", alpha: "23 deg", f: "50 Hz" });
+    expect(elements.find((e) => e.tagName === "QuasiSquare")?.properties).toEqual({ id: "qs1", vdc: "48 V", alpha: "30 deg", f: "50 Hz" });
     expect(elements.find((e) => e.tagName === "Formula")?.properties).toEqual({ id: "fx1", expr: "=qs1.v1Rms * 1.1" });
     const caution = elements.find((e) => e.tagName === "Caution")!;
     expect(textOf(caution)).toContain("Discharge it before touching the bridge.");

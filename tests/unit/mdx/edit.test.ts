@@ -20,7 +20,7 @@ function blocksOf(source: string): SourceBlock[] {
 }
 
 describe("setBlockInput", () => {
-  const SHEET = '# Bridge\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" />\n\nText.\n\n<DcLink\n  id="dc1"\n  p="1 kW"\n/>\n';
+  const SHEET = '# Bridge\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" />\n\nText.\n\n<DcLink\n  id="dc1"\n  p="1 kW"\n/>\n';
 
   it("replaces a value in place and leaves the rest of the source as it was", () => {
     const [qs1] = blocksOf(SHEET);
@@ -29,7 +29,7 @@ describe("setBlockInput", () => {
 
   it("adds a missing input after the last attribute of a one-line block", () => {
     const [qs1] = blocksOf(SHEET);
-    expect(setBlockInput(SHEET, qs1!, "f", "60 Hz")).toBe(SHEET.replace('alpha="23 deg" />', 'alpha="23 deg" f="60 Hz" />'));
+    expect(setBlockInput(SHEET, qs1!, "f", "60 Hz")).toBe(SHEET.replace('alpha="30 deg" />', 'alpha="30 deg" f="60 Hz" />'));
   });
 
   it("adds a missing input on a line of its own in a block written one attribute per line", () => {
@@ -180,7 +180,7 @@ describe("new blocks for the palette", () => {
   });
 
   it("write a block with each default, required inputs empty and optional ones left out", () => {
-    expect(blockSnippet("quasi-square", "qs1")).toBe('<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" f="50 Hz" hmax="49" />');
+    expect(blockSnippet("quasi-square", "qs1")).toBe('<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" f="50 Hz" hmax="49" />');
     expect(blockSnippet("half-bridge", "hb2")).toBe('<HalfBridge id="hb2" vdc="48 V" mode="split-capacitor" />');
     expect(blockSnippet("dc-link", "dc1")).toBe('<DcLink id="dc1" p="" vdc="" f="50 Hz" rippleVpp="" />');
     expect(() => blockSnippet("quasi-square", "1x")).toThrow(/starts with a letter/);

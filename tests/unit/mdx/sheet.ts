@@ -12,7 +12,7 @@ $$
 V_{1,\\mathrm{rms}} = \\frac{2\\sqrt{2}}{\\pi} V_{dc} \\cos\\alpha
 $$
 
-<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" f="50 Hz" />
+<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" f="50 Hz" />
 
 ## Margin on the fundamental
 

@@ -14,8 +14,8 @@ describe("quantity spellings", () => {
   });
 
   it("keeps unprefixed units unprefixed", () => {
-    const spellings = quantitySpellings(23, "deg");
-    expect(spellings).toContain("23°");
+    const spellings = quantitySpellings(30, "deg");
+    expect(spellings).toContain("30°");
     expect(spellings.some((s) => s.includes("k"))).toBe(false);
   });
 });
@@ -42,7 +42,7 @@ describe("values named by their input or calculator", () => {
 
   it("puts each input's and result's named words in the block's search text", () => {
     const text = blockValuesText(
-      [{ blockId: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg" }, parsedInputs: { vdc: 48, alpha: 23 }, results: { v1Rms: { value: 41.7, unit: "V", display: "41.7 V" } } }],
+      [{ blockId: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg" }, parsedInputs: { vdc: 48, alpha: 30 }, results: { v1Rms: { value: 41.7, unit: "V", display: "41.7 V" } } }],
       getCalculator,
     );
     expect(text).toContain("vdc48v");
@@ -53,7 +53,7 @@ describe("values named by their input or calculator", () => {
 
 describe("search text of a sheet", () => {
   const prepared = prepareSheet(
-    `## Output filter\n\nThe corner sits well below the switching frequency.\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" />\n\n<LcFilter id="lc1" l="1 mH" c="10 uF" rLoad="10 ohm" fsw="20kHz" vout="=qs1.v1Rms" />\n`,
+    `## Output filter\n\nThe corner sits well below the switching frequency.\n\n<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" />\n\n<LcFilter id="lc1" l="1 mH" c="10 uF" rLoad="10 ohm" fsw="20kHz" vout="=qs1.v1Rms" />\n`,
     "sheet",
   );
   if (!prepared.ok) throw new Error(JSON.stringify(prepared.problems));
@@ -70,20 +70,20 @@ describe("search text of a sheet", () => {
       return { blockId: b.id, calculator: b.calculator, inputs: b.inputs, parsedInputs: outcome?.ok ? outcome.inputs : null, results: outcome?.ok ? outcome.results : null };
     });
     const [quasiSquare, lcFilter] = blockValuesText(blocks, getCalculator).split("\n");
-    expect(quasiSquare).toMatch(/^qs1 · .* \(quasi-square\): vdc 48 V, alpha 23 deg → .*\u001f.*48 v/);
+    expect(quasiSquare).toMatch(/^qs1 · .* \(quasi-square\): vdc 48 V, alpha 30 deg → .*\u001f.*48 v/);
     expect(lcFilter).toContain("(lc-filter)");
     expect(lcFilter).toContain("fsw 20kHz");
     expect(lcFilter).toContain("20 khz");
     expect(lcFilter).toContain("f0 1.59 kHz");
     // A referenced input contributes its computed value, not the reference.
     expect(lcFilter).not.toContain("=qs1");
-    expect(lcFilter).toMatch(/vout 39\.8\d* V/);
+    expect(lcFilter).toMatch(/vout 37\.4\d* V/); // qs1.v1Rms = 4·48/π·cos 30°/√2 = 37.43 V (derived)
   });
 
   it("picks the block line a query found, by its shown values or its spellings, and marks the words shown as typed", () => {
-    const values = [`qs1 · Quasi-square (quasi-square): vdc 48 V, alpha 23 deg${SPELLINGS_MARK}48 v 48v`, `lc1 · LC output filter (lc-filter): fsw 20kHz${SPELLINGS_MARK}20 khz 20000 hz`].join("\n");
+    const values = [`qs1 · Quasi-square (quasi-square): vdc 48 V, alpha 30 deg${SPELLINGS_MARK}48 v 48v`, `lc1 · LC output filter (lc-filter): fsw 20kHz${SPELLINGS_MARK}20 khz 20000 hz`].join("\n");
     expect(matchedBlockLine(values, "20000 hz")).toBe("lc1 · LC output filter (lc-filter): fsw 20kHz");
-    expect(matchedBlockLine(values, "quasi-square 48 V")).toBe(`qs1 · ${HIT_START}Quasi-square${HIT_STOP} (${HIT_START}quasi-square${HIT_STOP}): vdc ${HIT_START}48${HIT_STOP} ${HIT_START}V${HIT_STOP}, alpha 23 deg`);
+    expect(matchedBlockLine(values, "quasi-square 48 V")).toBe(`qs1 · ${HIT_START}Quasi-square${HIT_STOP} (${HIT_START}quasi-square${HIT_STOP}): vdc ${HIT_START}48${HIT_STOP} ${HIT_START}V${HIT_STOP}, alpha 30 deg`);
     expect(matchedBlockLine(values, "damping")).toBeUndefined();
   });
 

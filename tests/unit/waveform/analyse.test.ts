@@ -1,6 +1,6 @@
 // Captures synthesized from the closed-form waveforms, read and analysed as an upload
 // would be, and compared with the engine's calculators and with the published values
-// the engine's own tests check (REFERENCES.md, "Fourier analysis of inverter waveforms").
+// the engine's own tests check (docs/sources.md, "Fourier series of bridge outputs").
 import { describe, expect, it } from "vitest";
 import { calculator as quasiSquareCalculator } from "~/lib/calc/calculators/quasi-square";
 import { calculator as sixStepCalculator } from "~/lib/calc/calculators/six-step";
@@ -18,7 +18,7 @@ function analyse(csv: string): ChannelAnalysis[] {
 
 const percentOf = (channel: ChannelAnalysis, n: number) => channel.harmonics.find((h) => h.n === n)!.percent;
 
-describe("measured quasi-square capture (α = 23°, with noise)", () => {
+describe("measured quasi-square capture (α = 30°, with noise)", () => {
   // 48 V bridge, 50 Hz, 100 kS/s, 10.37 cycles (not a whole number), an arbitrary start phase,
   // and Gaussian noise of 0.25 V RMS, as a probe and a scope's front end add.
   const csv = captureCsv({
@@ -26,14 +26,15 @@ describe("measured quasi-square capture (α = 23°, with noise)", () => {
     samples: 20_740,
     seed: 23,
     preamble: ["Invented bench export", "Record length,20740"],
-    channels: [{ name: "Vout", unit: "V", valueAt: quasiSquare(48, 23 * deg, 50, 1.234), noise: 0.25 }],
+    channels: [{ name: "Vout", unit: "V", valueAt: quasiSquare(48, 30 * deg, 50, 1.234), noise: 0.25 }],
   });
   const [measured] = analyse(csv);
-  const engine = run(quasiSquareCalculator, { vdc: 48, alpha: 23, f: 50, hmax: 49 }).results;
+  const engine = run(quasiSquareCalculator, { vdc: 48, alpha: 30, f: 50, hmax: 49 }).results;
 
   it("has THD within 0.5 % of the engine's (Rashid, 3rd ed., §6.6: Vrms = Vdc·√(1 − 2α/π), b_n = (4Vdc/nπ)·cos nα — published; α convention from memory)", () => {
     const engineThd = scalarOf(engine, "thd");
-    expectClose(engineThd, 28.97, { abs: 0.01 }, "engine THD at 23° (REFERENCES.md: 28.964 % at the 23.218° minimum — derived)");
+    // Derived: at α = 30°, Vrms² = ⅔·Vdc² and V1,rms² = 6·Vdc²/π², so THD = √(π²/9 − 1) = 31.084 %.
+    expectClose(engineThd, 100 * Math.sqrt(Math.PI ** 2 / 9 - 1), { abs: 1e-9 }, "engine THD at 30° (derived)");
     expectClose(measured!.thd, engineThd, { rel: 0.005 }, "measured THD, all components");
     expectClose(measured!.thd40, scalarOf(engine, "thd40"), { rel: 0.005 }, "measured THD to 40");
     expectClose(measured!.thd50, scalarOf(engine, "thd50"), { rel: 0.005 }, "measured THD to 50");
@@ -54,7 +55,7 @@ describe("measured quasi-square capture (α = 23°, with noise)", () => {
 
   it("plots one cycle from the fundamental's rising zero crossing, as the engine draws it", () => {
     const at = (theta: number) => measured!.waveform.find((p) => Math.abs(p.theta - theta) < 0.5)!.v;
-    expect(Math.abs(at(10))).toBeLessThan(1); // inside the zero interval 0° … 23°
+    expect(Math.abs(at(10))).toBeLessThan(1); // inside the zero interval 0° … 30°
     expectClose(at(90), 48, { abs: 0.5 }, "mid-pulse");
     expectClose(at(270), -48, { abs: 0.5 }, "mid negative pulse");
   });

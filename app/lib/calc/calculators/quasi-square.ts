@@ -49,7 +49,7 @@ const alphaInput: QuantityInputSpec = {
   min: 0,
   max: 90,
   maxExclusive: true,
-  default: "23 deg",
+  default: "30 deg",
 };
 
 const hmaxInput = highestOrderInput("49");

@@ -22,11 +22,13 @@ describe("quasi-square: square wave (α = 0)", () => {
     expectClose(scalarOf(results, "vrms"), 100, { rel: 1e-12 });
   });
 
-  it("has THD √(π²/8 − 1) = 48.3426 % over all harmonics (REFERENCES.md: derived from the series)", () => {
+  // Derived: Vrms = Vdc and V1,rms = 2√2·Vdc/π, so THD = √(π²/8 − 1).
+  it("has THD √(π²/8 − 1) = 48.3426 % over all harmonics (derived from the series)", () => {
     expectClose(scalarOf(results, "thd"), 48.3426, { abs: 5e-5 });
   });
 
-  it("has THD 47.03 % to order 40 and 47.30 % to order 50 (REFERENCES.md: derived; IEC and IEEE Std 519 ranges)", () => {
+  // Derived: √(Σ 1/n², odd n = 3 … 39 or 49); the orders counted are those of IEC 61000-3-2 (to 40) and IEEE Std 519-2014 (to 50) — published.
+  it("has THD 47.03 % to order 40 and 47.30 % to order 50 (derived from the series)", () => {
     expectClose(scalarOf(results, "thd40"), 47.03, { abs: 5e-3 });
     expectClose(scalarOf(results, "thd50"), 47.3, { abs: 5e-3 });
   });
@@ -34,7 +36,7 @@ describe("quasi-square: square wave (α = 0)", () => {
 
 describe("quasi-square: zero interval α", () => {
   it("has Vrms = Vdc·√(1 − 2α/π) and peaks (4Vdc/nπ)·cos(nα) (Rashid, 3rd ed., §6.6 single-pulse modulation — published; α convention and section: memory)", () => {
-    for (const alphaDeg of [5, 17.5, 23, 41, 60, 77]) {
+    for (const alphaDeg of [5, 17.5, 30, 41, 60, 77]) {
       const alpha = (alphaDeg * Math.PI) / 180;
       const { results } = compute(48, alphaDeg, 49);
       expectClose(scalarOf(results, "vrms"), 48 * Math.sqrt(1 - (2 * alpha) / Math.PI), { rel: 1e-12 }, `Vrms at ${alphaDeg}°`);
@@ -45,10 +47,20 @@ describe("quasi-square: zero interval α", () => {
     }
   });
 
-  it("removes the 3rd and its odd multiples at α = 30° (REFERENCES.md: derived from cos nα = 0)", () => {
+  it("removes the 3rd and its odd multiples at α = 30° (derived from cos nα = 0)", () => {
     const table = harmonicsOf(compute(48, 30, 99).results);
     for (const n of [3, 9, 15, 21, 27, 33, 39, 45]) expect(peakAt(table, n), `order ${n}`).toBe(0);
     expect(peakAt(table, 5)).toBeGreaterThan(1);
+  });
+
+  it("at α = 30° from 48 V: V1 = 52.93 V peak, Vrms = 39.19 V, each order 6k ± 1 at 1/n, THD √(π²/9 − 1) = 31.084 % (derived)", () => {
+    // Derived from the formulas above: cos 30° = √3/2, so V1 = 2√3·48/π; Vrms = 48·√(2/3); |cos(n·30°)| = √3/2 for n = 6k ± 1.
+    const { results } = compute(48, 30, 49);
+    expectClose(scalarOf(results, "v1Peak"), (2 * Math.sqrt(3) * 48) / Math.PI, { rel: 1e-12 });
+    expectClose(scalarOf(results, "vrms"), 48 * Math.sqrt(2 / 3), { rel: 1e-12 });
+    expectClose(scalarOf(results, "thd"), 100 * Math.sqrt(Math.PI ** 2 / 9 - 1), { rel: 1e-12 });
+    const table = harmonicsOf(results);
+    for (const n of [5, 7, 11, 13, 17, 19]) expectClose(table.find((h) => h.n === n)!.percent, 100 / n, { rel: 1e-9 }, `order ${n}`);
   });
 
   it("removes harmonic n at α = 90°/n (derived)", () => {
@@ -59,7 +71,9 @@ describe("quasi-square: zero interval α", () => {
     }
   });
 
-  it("reports the least-THD angle 23.218° with THD 28.964 %, and 28.988 % at 22.5° (REFERENCES.md: derived; 'about 22.5°' is common practice)", () => {
+  // Derived: THD² = (π − 2α)/(π·(8/π²)·cos²α) − 1 is least where (π − 2α)·tan α = 1, i.e. α = 23.218°, THD 28.964 %.
+  // "About 22.5°" as the angle of least THD: common practice, no source.
+  it("reports the least-THD angle 23.218° with THD 28.964 %, and 28.988 % at 22.5° (derived; 22.5°: common practice, no source)", () => {
     const { results } = compute(48, 22.5);
     expectClose(scalarOf(results, "alphaMinThd"), 23.218, { abs: 5e-4 });
     expectClose(scalarOf(results, "thdMin"), 28.964, { abs: 5e-4 });
@@ -76,7 +90,7 @@ describe("quasi-square: zero interval α", () => {
 });
 
 describe("quasi-square against an FFT of the synthesized wave (fft.js, 2^16 points)", () => {
-  it.each([0, 10, 23, 30, 60, 85])("α = %d°: every harmonic to 199, the RMS and the three THDs agree", (alphaDeg) => {
+  it.each([0, 10, 20, 30, 60, 85])("α = %d°: every harmonic to 199, the RMS and the three THDs agree", (alphaDeg) => {
     const vdc = 48;
     const alpha = (alphaDeg * Math.PI) / 180;
     // Written from the definition: +Vdc for α < θ < π − α, −Vdc for π + α < θ < 2π − α.
@@ -102,8 +116,8 @@ describe("quasi-square against an FFT of the synthesized wave (fft.js, 2^16 poin
 
 describe("quasi-square behaviour", () => {
   it("scales voltages with Vdc and leaves percentages unchanged", () => {
-    const low = compute(48, 23).results;
-    const high = compute(480, 23).results;
+    const low = compute(48, 30).results;
+    const high = compute(480, 30).results;
     expectClose(scalarOf(high, "v1Peak"), 10 * scalarOf(low, "v1Peak"), { rel: 1e-12 });
     expectClose(scalarOf(high, "thd"), scalarOf(low, "thd"), { rel: 1e-12 });
     const lowTable = harmonicsOf(low);
@@ -111,17 +125,18 @@ describe("quasi-square behaviour", () => {
   });
 
   it("lists the fundamental first at 100 %, then odd orders to hmax, each with its frequency n·f", () => {
-    const table = harmonicsOf(compute(48, 23, 15, 60).results);
+    const table = harmonicsOf(compute(48, 30, 15, 60).results);
     expect(table.map((h) => h.n)).toEqual([1, 3, 5, 7, 9, 11, 13, 15]);
     expect(table[0]!.percent).toBe(100);
     expectClose(table[3]!.frequency!, 420);
   });
 
   it("plots one cycle: zero, then +Vdc from α to 180° − α, then −Vdc from 180° + α to 360° − α", () => {
-    const points = waveformOf(compute(48, 23).results);
+    const points = waveformOf(compute(48, 30).results);
     expect(points[0]!.theta).toBe(0);
     expect(points[points.length - 1]!.theta).toBe(360);
-    expect(levelAfter(points, 10)).toBe(0);
+    expect(levelAfter(points, 25)).toBe(0);
+    expect(levelAfter(points, 35)).toBe(48);
     expect(levelAfter(points, 90)).toBe(48);
     expect(levelAfter(points, 170)).toBe(0);
     expect(levelAfter(points, 270)).toBe(-48);
@@ -129,15 +144,15 @@ describe("quasi-square behaviour", () => {
   });
 
   it("warns when α leaves almost no fundamental", () => {
-    expect(compute(48, 23).warnings).toEqual([]);
+    expect(compute(48, 30).warnings).toEqual([]);
     expect(compute(48, 85).warnings.join(" ")).toMatch(/fundamental/);
   });
 
   it("refuses inputs outside the declared ranges with a field error", () => {
     expect(() => compute(48, 90)).toThrow(CalculationError);
     expect(() => compute(48, -1)).toThrow(/alpha|α/);
-    expect(() => compute(0, 23)).toThrow(CalculationError);
-    expect(() => compute(48, 23, 10.5)).toThrow(/whole number/);
+    expect(() => compute(0, 30)).toThrow(CalculationError);
+    expect(() => compute(48, 30, 10.5)).toThrow(/whole number/);
     expect(() => run(calculator, { vdc: 48, alpha: Number.NaN, f: 50, hmax: 49 })).toThrow(CalculationError);
   });
 
