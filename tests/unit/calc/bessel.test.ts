@@ -22,7 +22,7 @@ function besselIntegral(n: number, x: number, points = 1024): number {
 
 describe("besselJ against published tables", () => {
   // Abramowitz & Stegun, Handbook of Mathematical Functions, 1964, Table 9.1 (10 decimals).
-  // Values recalled from memory (REFERENCES.md status: memory); the tolerance is the table's rounding.
+  // Values from memory, unverified; the tolerance is the table's rounding. (The tight checks below need no table.)
   const table: [n: number, x: number, value: number][] = [
     [0, 1, 0.7651976866],
     [1, 1, 0.4400505857],

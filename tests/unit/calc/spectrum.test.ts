@@ -57,7 +57,7 @@ describe("harmonic table", () => {
 
 describe("THD arithmetic", () => {
   it("THD from the RMS identity equals THD from the lines when all lines are given", () => {
-    // V1 = 1, V3 = 0.3, V5 = 0.4 (peaks): THD = 50 %.
+    // V1 = 1, V3 = 0.3, V5 = 0.4 (peaks): THD = √(0.3² + 0.4²)/1 = 50 % (derived from the definition).
     const lines = [{ n: 3, peak: 0.3 }, { n: 5, peak: 0.4 }];
     const totalRms = Math.sqrt((1 + 0.09 + 0.16) / 2);
     expectClose(thdFromRms(totalRms, 1 / Math.SQRT2), 50, { rel: 1e-12 });
@@ -75,7 +75,7 @@ describe("THD arithmetic", () => {
 });
 
 describe("stepped-cycle Fourier", () => {
-  it("reproduces the square wave's series 4/(nπ) for odd n, zero for even n (Mohan, Undeland & Robbins, 3rd ed., ch. 8)", () => {
+  it("reproduces the square wave's series 4/(nπ) for odd n, zero for even n (Mohan, Undeland & Robbins, 3rd ed., ch. 8 — published)", () => {
     const { a, b } = steppedCycleFourier(square, 301);
     for (let n = 1; n <= 301; n++) {
       expectClose(a[n]!, 0, { abs: 1e-13 }, `a_${n}`);

@@ -3,7 +3,7 @@ import { expectClose } from "../../../support/tolerance";
 import { refuse, run, valueOf } from "./run-helpers";
 
 // Reference: instantaneous power of a single-phase load at unity power factor,
-// p(t) = P·(1 − cos 2ωt) — derived (REFERENCES.md, "DC link"). The checks below
+// p(t) = P·(1 − cos 2ωt) — derived from p = v·i with v and i in phase. The checks below
 // integrate that waveform numerically instead of reusing the closed form.
 
 /** Capacitor current i_C(t) = (P − p(t))/Vdc sampled over one output cycle, and the charge it moves. */
@@ -48,7 +48,7 @@ describe("dc-link", () => {
     expectClose(valueOf(doubled, "c"), valueOf(results, "c") / 2, { rel: 1e-12 });
   });
 
-  it("warns when the ripple is large against Vdc (common practice: ~10 %)", () => {
+  it("warns when the ripple is large against Vdc (about 10 %: common practice, no source)", () => {
     expect(run("dc-link", { ...inputs, rippleVpp: "60 V" }).warnings.join(" ")).toMatch(/15.0 % of Vdc/);
   });
 

@@ -5,7 +5,7 @@ import { refuse, run, scalarOf, valueOf } from "./run-helpers";
 
 // Square wave of amplitude Va: fundamental peak 4·Va/π, fundamental RMS 2√2/π·Va = 0.900316·Va,
 // total RMS Va. Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 8; Rashid, Power
-// Electronics, 3rd ed., ch. 6 — published (REFERENCES.md: "Square wave: fundamental RMS").
+// Electronics, 3rd ed., ch. 6 — published.
 const FUNDAMENTAL_RMS_RATIO = 0.900316;
 
 describe("half-bridge, split capacitor", () => {
@@ -17,6 +17,7 @@ describe("half-bridge, split capacitor", () => {
     expectClose(valueOf(results, "v1Peak"), (4 * 24) / Math.PI, { rel: 1e-12 });
   });
 
+  // Derived: the off switch of a leg sits across the link while its partner conducts.
   it("has each switch block the whole DC link", () => {
     expectClose(valueOf(results, "vBlock"), 48, { rel: 1e-12 });
   });
@@ -42,11 +43,13 @@ describe("half-bridge, centre-tapped transformer", () => {
     expectClose(valueOf(results, "vBlock"), 48, { rel: 1e-12 });
   });
 
+  // Behaviour, not a reference value: with no ratio the secondary sees ±Vdc, a 24 V square wave of RMS 24 V.
   it("treats an absent turns ratio as 1", () => {
     const { results } = run("half-bridge", { vdc: "24 V", mode: "centre-tapped" });
     expectClose(valueOf(results, "vrms"), 24, { rel: 1e-12 });
   });
 
+  // Derived: V1,rms = n·0.900316·Vdc (Mohan, Undeland & Robbins, 3rd ed., ch. 8 — published), so n = V_target/(0.900316·Vdc).
   it("sizes a turns ratio that delivers the target fundamental RMS", () => {
     const sized = run("half-bridge", { vdc: "24 V", mode: "centre-tapped", targetVrms: "230 V" });
     const ratio = valueOf(sized.results, "turnsRatioForTarget");
@@ -55,6 +58,7 @@ describe("half-bridge, centre-tapped transformer", () => {
     expectClose(valueOf(built.results, "v1Rms"), 230, { rel: 1e-12 });
   });
 
+  // Derived as above with the load's square wave of ±Vdc/2.
   it("for a split capacitor, sizes an output transformer and says so", () => {
     const { results, warnings } = run("half-bridge", { vdc: "400 V", targetVrms: "230 V" });
     expectClose(valueOf(results, "turnsRatioForTarget"), 230 / (FUNDAMENTAL_RMS_RATIO * 200), { rel: 1e-6 });

@@ -29,7 +29,8 @@ describe("harmonic-limits: IEEE Std 519-2014 Table 1 (voltage) — published", (
     expect(valueOf(results, "thdLimit")).toBe(thd);
   });
 
-  it("computes THD to order 50 only: a square wave gives 47.30 % (REFERENCES.md, derived)", () => {
+  // Derived: √(Σ 1/n², odd n = 3 … 49) = 47.30 %; IEEE Std 519-2014 counts orders to 50 (published).
+  it("computes THD to order 50 only: a square wave gives 47.30 % (derived)", () => {
     const { results, warnings } = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", spectrum: squareWaveSpectrum(99) });
     expectClose(valueOf(results, "thd"), 47.30, { abs: 0.005 });
     expect(results.pass).toBe(false);
@@ -145,6 +146,7 @@ describe("harmonic-limits: IEC 61000-3-2 Class A (Table 1; table number from mem
   });
 });
 
+// IEEE Std 1547-2018, §7.3: Sinewright's table for it is from memory, unverified; this checks only that it says so.
 describe("harmonic-limits: IEEE Std 1547-2018 (from memory — unverified)", () => {
   it("marks the source as memory and the verdict as unverified", () => {
     const { results, warnings } = run("harmonic-limits", { standard: "ieee1547", spectrum: [{ n: 3, value: 1 }, { n: 4, value: 1 }] });

@@ -16,10 +16,12 @@ function circuitGain(f: number, l: number, c: number, r?: number): number {
 const worked = { l: "1 mH", c: "10 uF", rLoad: "10 ohm", fsw: "20 kHz" };
 
 describe("lc-filter: worked check L = 1 mH, C = 10 µF, R = 10 Ω", () => {
-  // REFERENCES.md "Worked check" (derived): f0 = 1591.55 Hz, Q = 1, |H(20 kHz)| = −43.94 dB.
+  // Derived from Erickson & Maksimović, Fundamentals of Power Electronics, 2nd ed., ch. 8 (chapter from memory):
+  // f0 = 1/(2π√(1 mH·10 µF)) = 1591.55 Hz, Z0 = √(L/C) = 10 Ω, Q = R/Z0 = 1,
+  // |H(20 kHz)| = 1/√((1 − ω²LC)² + (ωL/R)²) = −43.94 dB.
   const { results, warnings } = run("lc-filter", worked);
 
-  it("f0 = 1591.55 Hz and Z0 = 10 Ω", () => {
+  it("f0 = 1591.55 Hz and Z0 = 10 Ω (derived)", () => {
     expectClose(valueOf(results, "f0"), 1591.55, { abs: 0.005 });
     expectClose(valueOf(results, "z0"), 10, { rel: 1e-12 });
   });
@@ -28,7 +30,7 @@ describe("lc-filter: worked check L = 1 mH, C = 10 µF, R = 10 Ω", () => {
     expectClose(valueOf(results, "q"), 1, { rel: 1e-12 });
   });
 
-  it("|H(20 kHz)| = −43.94 dB", () => {
+  it("|H(20 kHz)| = −43.94 dB (derived)", () => {
     expectClose(valueOf(results, "gainFswDb"), -43.94, { abs: 0.005 });
   });
 
@@ -67,6 +69,7 @@ describe("lc-filter: transfer function", () => {
     expectClose(b - a, -40, { abs: 0.01 });
   });
 
+  // Derived: a capacitor across Vout carries Vout/X_C = Vout·2πfC at the fundamental; mathjs does the unit arithmetic.
   it("gives the capacitor's fundamental current Vout·2πfC (230 V, 50 Hz, 10 µF)", () => {
     const { results } = run("lc-filter", { ...worked, vout: "230 V" });
     const byUnits = reference.evaluate("230 V * 2 pi * 50 Hz * 10 uF").toNumber("A");
@@ -89,14 +92,15 @@ describe("lc-filter: unloaded and poorly placed filters", () => {
     expect(warnings.length).toBeGreaterThan(0);
   });
 
-  it("warns when the corner is not a decade below fsw (common practice)", () => {
+  it("warns when the corner is not a decade below fsw (common practice, no source)", () => {
     expect(run("lc-filter", { l: "100 uH", c: "1 uF", rLoad: "10 ohm", fsw: "20 kHz" }).warnings.join(" ")).toMatch(/not a decade below the switching frequency/);
   });
 
-  it("warns when the corner is near the fundamental (common practice)", () => {
+  it("warns when the corner is near the fundamental (common practice, no source)", () => {
     expect(run("lc-filter", { l: "10 mH", c: "100 uF", rLoad: "10 ohm", fsw: "20 kHz" }).warnings.join(" ")).toMatch(/within a decade of the fundamental/);
   });
 
+  // Derived: R = 100 Ω gives Q = 10, and |H(f0)| = Q (Erickson & Maksimović, 2nd ed., ch. 8 — published) is 20 dB.
   it("warns of resonance peaking when Q is large", () => {
     expect(run("lc-filter", { ...worked, rLoad: "100 ohm" }).warnings.join(" ")).toMatch(/peaks by about 20.0 dB/);
   });

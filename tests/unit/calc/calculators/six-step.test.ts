@@ -34,7 +34,8 @@ describe("six-step: published values (Mohan, Undeland & Robbins, 3rd ed., §8-6;
     for (const h of table.slice(1)) expectClose(h.percent, 100 / h.n, { rel: 1e-12 }, `order ${h.n}`);
   });
 
-  it("has THD √(π²/9 − 1) = 31.084 % over all harmonics (REFERENCES.md: published)", () => {
+  // Published (Mohan, Undeland & Robbins, 3rd ed., §8-6); also derived: Σ(1/n)² over 6k ± 1 = π²/9 − 1.
+  it("has THD √(π²/9 − 1) = 31.084 % over all harmonics (published; derived)", () => {
     expectClose(scalarOf(results, "thd"), 31.084, { abs: 5e-4 });
     expectClose(scalarOf(results, "thd"), 100 * Math.sqrt(Math.PI ** 2 / 9 - 1), { rel: 1e-12 });
   });

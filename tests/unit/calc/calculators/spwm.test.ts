@@ -71,7 +71,7 @@ describe("spwm: Mohan, Undeland & Robbins, 3rd ed., Table 8-1 (bipolar pole volt
       for (const n of orders) expectClose(peakAt(spectra[column]!, n), Number(text), { abs: allowance }, `order ${n} at ma = ${columns[column]}`);
     });
   };
-  // Rows 1, mf, 2mf±1, 3mf, 4mf±1: published and confirmed (REFERENCES.md).
+  // Rows 1, mf, 2mf±1, 3mf, 4mf±1: published, checked against Mohan, Undeland & Robbins, 3rd ed., Table 8-1.
   it("matches the confirmed rows 1, mf, 2mf ± 1, 3mf and 4mf ± 1", () => {
     checkRow([1], ["0.2", "0.4", "0.6", "0.8", "1.0"]);
     checkRow([mf], ["1.242", "1.15", "1.006", "0.818", "0.601"]);
@@ -79,7 +79,7 @@ describe("spwm: Mohan, Undeland & Robbins, 3rd ed., Table 8-1 (bipolar pole volt
     checkRow([3 * mf], ["0.335", "0.123", "0.083", "0.171", "0.113"]);
     checkRow([4 * mf - 1, 4 * mf + 1], ["0.163", "0.157", "0.008", "0.105", "0.068"]);
   });
-  // The other rows are recalled from memory (REFERENCES.md status: memory), so they get a looser check.
+  // The other rows of Table 8-1 are from memory, unverified, so they get a looser check.
   it("matches the remaining rows as recalled (memory; looser check)", () => {
     const loose = 2e-3;
     checkRow([mf - 2, mf + 2], ["0.016", "0.061", "0.131", "0.220", "0.318"], loose);
@@ -113,7 +113,9 @@ describe("spwm: linear region", () => {
     }
   });
 
-  it("has bipolar THD √(2/ma² − 1) over all components, from Vrms = Vdc/2 (REFERENCES.md: derived)", () => {
+  // Derived: the bipolar pole's RMS is Vdc/2 whatever ma and its fundamental RMS is ma·Vdc/(2√2) (Mohan, Undeland &
+  // Robbins, 3rd ed., §8-3 — published), so THD = √((Vdc/2)² / (ma·Vdc/(2√2))² − 1) = √(2/ma² − 1).
+  it("has bipolar THD √(2/ma² − 1) over all components, from Vrms = Vdc/2 (derived)", () => {
     for (const ma of [0.2, 0.5, 0.8, 1]) {
       for (const bridge of ["half", "full"] as const) {
         const { results } = compute({ ma, mf: 99, bridge });
@@ -166,6 +168,8 @@ describe("spwm: overmodulation (ma > 1)", () => {
     }
   });
 
+  // Derived: as ma grows the pole voltage tends to the square wave, whose fundamental is 4/π·Vdc/2 (Mohan, Undeland &
+  // Robbins, 3rd ed., ch. 8 — published); a finite ma still leaves switching inside the half cycle.
   it("fundamental rises with ma towards the square wave's 4/π·Vdc/2 but never reaches it", () => {
     const peaks = [1, 1.5, 2, 3, 4].map((ma) => scalarOf(compute({ vdc: 2, ma, mf: 201, bridge: "half", hmax: 10 }).results, "v1Peak"));
     for (let i = 1; i < peaks.length; i++) expect(peaks[i]!).toBeGreaterThan(peaks[i - 1]!);

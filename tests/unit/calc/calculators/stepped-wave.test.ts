@@ -43,7 +43,7 @@ describe("stepped wave: reduces to the published single-pulse cases", () => {
 });
 
 describe("stepped wave: harmonic cancellation by the angles (derived from V_n ∝ Σ cos nα_i)", () => {
-  it("two steps at α and 36° − α remove the 5th (cos 5α₂ = −cos 5α₁)", () => {
+  it("two steps at α and 36° − α remove the 5th (derived: cos 5α₂ = −cos 5α₁ in V_n ∝ Σ cos nα_i, Rashid, 3rd ed., ch. 6 — published)", () => {
     for (const alpha of [4, 10, 15]) {
       const table = harmonicsOf(compute(48, [alpha, 36 - alpha]).results);
       expect(peakAt(table, 5), `α₁ = ${alpha}°`).toBe(0);
@@ -51,7 +51,7 @@ describe("stepped wave: harmonic cancellation by the angles (derived from V_n �
     }
   });
 
-  it("three steps at 10°, 30°, 50° remove the 3rd, 9th and 15th (cos 3α sums to zero)", () => {
+  it("three steps at 10°, 30°, 50° remove the 3rd, 9th and 15th (derived: cos 3α sums to zero)", () => {
     const table = harmonicsOf(compute(48, [10, 30, 50], 49).results);
     // cos 30° + cos 90° + cos 150° = 0, and likewise for 9th and 15th.
     for (const n of [3, 9, 15]) expect(peakAt(table, n), `order ${n}`).toBe(0);

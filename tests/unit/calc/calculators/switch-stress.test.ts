@@ -37,25 +37,29 @@ describe("switch-stress: currents", () => {
     expectClose(valueOf(results, "iPeak"), peak, { rel: 1e-12 });
   });
 
-  it("gives the RMS of one half-sine per cycle, Î/2 (numerical integration; common practice model)", () => {
+  it("gives the RMS of one half-sine per cycle, Î/2 (derived by numerical integration; the half-sine-per-switch model is common practice, no source)", () => {
     expectClose(valueOf(results, "iRms"), Math.sqrt(cycleMean((i) => i * i, peak)), { rel: 1e-6 });
   });
 
+  // Derived: an off switch of a bridge leg sits across the link.
   it("blocks the DC-link voltage", () => {
     expectClose(valueOf(results, "vBlock"), 400, { rel: 1e-12 });
   });
 
+  // Derived: the definition of balanced three-phase real power.
   it("uses P = √3·V_LL·I·pf for three phases", () => {
     const three = run("switch-stress", { ...mosfet, topology: "three-phase", vout: "400 V", vdc: "700 V", vRated: "1200 V" }).results;
     expectClose(valueOf(three, "iPeak"), Math.SQRT2 * (3000 / (Math.sqrt(3) * 400)), { rel: 1e-12 });
   });
 
-  it("assumes the largest linear-SPWM output without vout: V_LL1 = 0.612·Vdc (Mohan, 3rd ed., ch. 8 — published)", () => {
+  it("assumes the largest linear-SPWM output without vout: V_LL1 = 0.612·Vdc (Mohan, Undeland & Robbins, 3rd ed., §8-3 — published)", () => {
     const { results: assumed, warnings } = run("switch-stress", { ...mosfet, topology: "three-phase", vout: undefined, vdc: "700 V", vRated: "1200 V" });
     expectClose(valueOf(assumed, "iPeak"), Math.SQRT2 * (3000 / (Math.sqrt(3) * 0.612 * 700)), { rel: 1e-3 });
     expect(warnings.join(" ")).toMatch(/vout not given: the largest linear-SPWM output, 429 V/);
   });
 
+  // Derived: a full bridge's linear-SPWM fundamental peaks at Vdc (ma = 1; Mohan, Undeland & Robbins, 3rd ed., §8-3 —
+  // published), so its RMS is at most Vdc/√2 = 212 V from 300 V.
   it("warns when vout needs overmodulation (full bridge: above Vdc/√2)", () => {
     expect(run("switch-stress", { ...mosfet, vdc: "300 V" }).warnings.join(" ")).toMatch(/exceeds the linear-SPWM maximum of 212 V/);
   });
@@ -65,7 +69,8 @@ describe("switch-stress: losses and temperature", () => {
   const { results } = run("switch-stress", mosfet);
   const peak = Math.SQRT2 * (3000 / 230);
 
-  it("conduction loss of a MOSFET is I_rms²·R_DS(on)", () => {
+  // Derived: a MOSFET conducts as a resistance, so its loss is the mean of i²·R_DS(on) over the cycle.
+  it("conduction loss of a MOSFET is I_rms²·R_DS(on) (derived)", () => {
     expectClose(valueOf(results, "pCond"), cycleMean((i) => i * i * 0.05, peak), { rel: 1e-6 });
   });
 
@@ -75,20 +80,22 @@ describe("switch-stress: losses and temperature", () => {
     expectClose(valueOf(results, "pSw"), expected, { rel: 1e-6 });
   });
 
-  it("junction temperature is T_a + R_th·(P_cond + P_sw)", () => {
+  // Derived: the definition of a steady-state junction-to-ambient thermal resistance, T_j − T_a = R_th(j-a)·P.
+  it("junction temperature is T_a + R_th·(P_cond + P_sw) (derived)", () => {
     expectClose(valueOf(results, "tj"), 40 + 2 * (valueOf(results, "pCond") + valueOf(results, "pSw")), { rel: 1e-12 });
   });
 
-  it("totals the loss over the bridge's four switches", () => {
+  // Derived: a full bridge has four switches, each carrying one half-sine per cycle.
+  it("totals the loss over the bridge's four switches (derived)", () => {
     expectClose(valueOf(results, "pLossTotal"), 4 * (valueOf(results, "pCond") + valueOf(results, "pSw")), { rel: 1e-12 });
   });
 
-  it("IGBT conduction is V_CE(sat) times the mean current Î/π (constant-drop model, common practice)", () => {
+  it("IGBT conduction is V_CE(sat) times the mean current Î/π (constant-drop model: common practice, no source)", () => {
     const igbt = run("switch-stress", { ...mosfet, device: "igbt", rdsOn: undefined, vceSat: "1.7 V" }).results;
     expectClose(valueOf(igbt, "pCond"), cycleMean((i) => 1.7 * i, peak), { rel: 1e-6 });
   });
 
-  it("scales datasheet switching energies linearly with voltage and current (common practice)", () => {
+  it("scales datasheet switching energies linearly with voltage and current (common practice, no source)", () => {
     const energies = { ...mosfet, tr: undefined, tf: undefined, eon: "100 uJ", eoff: "60 uJ", eTestV: "400 V", eTestI: "20 A" };
     const base = valueOf(run("switch-stress", energies).results, "pSw");
     expectClose(base, cycleMean((i) => 20e3 * 160e-6 * (i / 20), peak), { rel: 1e-6 });
@@ -97,7 +104,7 @@ describe("switch-stress: losses and temperature", () => {
   });
 });
 
-describe("switch-stress: voltage margin (80 % derating, common practice)", () => {
+describe("switch-stress: voltage margin (80 % derating: common practice, no source)", () => {
   it("is the headroom below 80 % of the rating", () => {
     const { results } = run("switch-stress", mosfet);
     expectClose(valueOf(results, "voltageMargin"), (1 - 400 / (0.8 * 650)) * 100, { rel: 1e-12 });
