@@ -4,6 +4,7 @@ import { requireMember } from "~/.server/access";
 import { apiError, methodNotAllowed, resultsJson, withCaution } from "~/.server/api";
 import { AttachmentError, listAttachments, uploadAttachment, type IngestProgress } from "~/.server/attachments";
 import type { AttachmentSummary } from "~/lib/attachments/files";
+import { loggableError, logger } from "~/.server/logger";
 import { getSheet } from "~/.server/sheets";
 
 /** GET /api/v1/sheets/:number/attachments — the sheet's attachments, with each capture's channels. Viewers and up. */
@@ -69,6 +70,6 @@ function withUrl(attachment: AttachmentSummary, sheetLabel: string) {
 
 function failure(error: unknown): Response {
   if (error instanceof AttachmentError) return apiError(error.status, error.message);
-  console.error(error);
+  logger().error({ err: loggableError(error) }, "storing an attachment failed");
   return apiError(500, "The file could not be stored, and nothing was kept. Try again; if it keeps failing, tell your administrator.");
 }

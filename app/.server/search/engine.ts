@@ -4,6 +4,7 @@
  * written in the same transaction as every change, so nothing is missing from it.
  */
 import { config } from "../config";
+import { loggableError, logger } from "../logger";
 import { MeilisearchEngine } from "./meilisearch";
 import { PostgresSearchEngine } from "./postgres";
 import type { SearchDocument, SearchEngine, SearchFilters, SearchResult } from "./types";
@@ -57,5 +58,5 @@ export function meilisearchEngine(): MeilisearchEngine | undefined {
 export function searchEngine(): SearchEngine {
   const primary = meilisearchEngine();
   const postgres = new PostgresSearchEngine();
-  return primary ? new FallbackSearchEngine(primary, postgres, (error) => console.warn(`[search] Meilisearch unreachable, answering from PostgreSQL: ${String(error)}`)) : postgres;
+  return primary ? new FallbackSearchEngine(primary, postgres, (error) => logger().warn({ err: loggableError(error) }, "[search] Meilisearch unreachable, answering from PostgreSQL")) : postgres;
 }
