@@ -216,6 +216,7 @@ describe("a harmonic-limits block", () => {
     expect(selectedOption(html, attribute(controlLabelled(html, "Limit table")!, "id")!)).toMatch(/IEEE Std 519-2014 Table 1/);
   });
 
+  // The 4.0 % limit for the 3rd is Sinewright's IEEE Std 1547-2018 §7.3 row: from memory, unverified.
   it("within limits of a table entered from memory: says Pass and flags it unverified", () => {
     const html = renderBlock(
       [{ id: "hl2", calculator: "harmonic-limits", inputs: { standard: "ieee1547", spectrum: '[{"n":3,"value":2}]' } }],
