@@ -18,6 +18,7 @@ const sheet: SheetBlock[] = [
   { id: "sixstep", calculator: "six-step", inputs: { vdc: "400 V" } },
   { id: "pwm", calculator: "spwm", inputs: { vdc: "400 V", ma: "0.8", mf: "41", scheme: "unipolar", bridge: "full", hmax: "200" } },
   { id: "pwmHalf", calculator: "spwm", inputs: { vdc: "400 V", ma: "0.9", mf: "21", scheme: "bipolar", bridge: "half" } },
+  { id: "pwm3", calculator: "three-phase-pwm", inputs: { vdc: "540 V", ma: "1.1", mf: "51", reference: "svpwm", sampling: "regular-asymmetric", f: "400 Hz", hmax: "200" } },
   { id: "hb", calculator: "half-bridge", inputs: { vdc: "=link.value", mode: "centre-tapped", targetVrms: "230 V" } },
   { id: "hbOut", calculator: "half-bridge", inputs: { vdc: "=link.value", mode: "centre-tapped", turnsRatio: "=hb.turnsRatioForTarget" } },
   { id: "filter", calculator: "lc-filter", inputs: { l: "2.2 mH", c: "4.7 uF", rLoad: "52.9 ohm", fsw: "20 kHz", vout: "=hbOut.v1Rms" } },

@@ -13,6 +13,7 @@ import { calculator as sixStep } from "./calculators/six-step";
 import { calculator as spwm } from "./calculators/spwm";
 import { calculator as steppedWave } from "./calculators/stepped-wave";
 import { calculator as switchStress } from "./calculators/switch-stress";
+import { calculator as threePhasePwm } from "./calculators/three-phase-pwm";
 import type { Calculator } from "./types";
 import { ENGINE_VERSION } from "./version";
 
@@ -22,6 +23,7 @@ export const calculators: readonly Calculator[] = [
   steppedWave,
   sixStep,
   spwm,
+  threePhasePwm,
   halfBridge,
   lcFilter,
   dcLink,

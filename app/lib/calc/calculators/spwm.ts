@@ -199,7 +199,7 @@ export function closedFormSpectrum(ma: number, mf: number, scheme: PwmScheme, hi
 }
 
 /** The triangle carrier, −1 … +1, with a valley at θ = 90°. */
-function carrier(theta: number, mf: number): number {
+export function carrier(theta: number, mf: number): number {
   const x = mf * (theta - Math.PI / 2);
   const wrapped = x - 2 * Math.PI * Math.round(x / (2 * Math.PI));
   return (2 * Math.abs(wrapped)) / Math.PI - 1;
