@@ -18,7 +18,6 @@ const sheet: SheetBlock[] = [
   { id: "sixstep", calculator: "six-step", inputs: { vdc: "400 V" } },
   { id: "pwm", calculator: "spwm", inputs: { vdc: "400 V", ma: "0.8", mf: "41", scheme: "unipolar", bridge: "full", hmax: "200" } },
   { id: "pwmHalf", calculator: "spwm", inputs: { vdc: "400 V", ma: "0.9", mf: "21", scheme: "bipolar", bridge: "half" } },
-  { id: "pwm3", calculator: "three-phase-pwm", inputs: { vdc: "540 V", ma: "1.1", mf: "51", reference: "svpwm", sampling: "regular-asymmetric", f: "400 Hz", hmax: "200" } },
   { id: "hb", calculator: "half-bridge", inputs: { vdc: "=link.value", mode: "centre-tapped", targetVrms: "230 V" } },
   { id: "hbOut", calculator: "half-bridge", inputs: { vdc: "=link.value", mode: "centre-tapped", turnsRatio: "=hb.turnsRatioForTarget" } },
   { id: "filter", calculator: "lc-filter", inputs: { l: "2.2 mH", c: "4.7 uF", rLoad: "52.9 ohm", fsw: "20 kHz", vout: "=hbOut.v1Rms" } },
@@ -33,6 +32,13 @@ const sheet: SheetBlock[] = [
   { id: "distortion", calculator: "formula", inputs: { expr: "sqrt(qs.vrms^2 - qs.v1Rms^2)" } },
   { id: "capUf", calculator: "formula", inputs: { expr: "dc.c to uF" } },
   { id: "loss", calculator: "formula", inputs: { expr: "fet.pLossTotal / 3 kW * 100" } },
+];
+
+// The calculators of the three-phase and multilevel work, timed one by one (they are not on the 20-block sheet above).
+const singleBlocks: SheetBlock[] = [
+  { id: "pwm3", calculator: "three-phase-pwm", inputs: { vdc: "540 V", ma: "1.1", mf: "51", reference: "svpwm", sampling: "regular-asymmetric", f: "400 Hz", hmax: "200" } },
+  { id: "she", calculator: "harmonic-elimination", inputs: { vdc: "48 V", wave: "stepped", m: "0.8", eliminate: "5, 7, 11", f: "50 Hz" } },
+  { id: "sheNone", calculator: "harmonic-elimination", inputs: { vdc: "48 V", wave: "stepped", m: "0.95", eliminate: "5, 7, 11, 13, 17", f: "50 Hz" } },
 ];
 
 function percentile(sorted: number[], p: number): number {
@@ -65,8 +71,8 @@ console.log(`Engine benchmark — ${sheet.length}-block sheet, ${new Set(sheet.m
 const { median } = measure("evaluateSheet (20 blocks)", 2000, () => evaluateSheet(sheet));
 console.log(`  target ≤ 2 ms median: ${median <= 2 ? "met" : "NOT met"}`);
 
-console.log("\nSingle blocks (evaluateCalculator):");
-for (const block of sheet) {
+console.log("\nSingle blocks (evaluateCalculator; target ≤ 2 ms median each):");
+for (const block of [...sheet, ...singleBlocks]) {
   const references = JSON.stringify(block.inputs).includes('"=');
   if (references || block.calculator === "formula") continue;
   measure(`  ${block.id} (${block.calculator})`, 1000, () => evaluateCalculator(block.calculator, block.inputs));

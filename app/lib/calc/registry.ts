@@ -6,6 +6,7 @@
 import { calculator as dcLink } from "./calculators/dc-link";
 import { calculator as formula } from "./calculators/formula";
 import { calculator as halfBridge } from "./calculators/half-bridge";
+import { calculator as harmonicElimination } from "./calculators/harmonic-elimination";
 import { calculator as harmonicLimits } from "./calculators/harmonic-limits";
 import { calculator as lcFilter } from "./calculators/lc-filter";
 import { calculator as quasiSquare } from "./calculators/quasi-square";
@@ -21,6 +22,7 @@ import { ENGINE_VERSION } from "./version";
 export const calculators: readonly Calculator[] = [
   quasiSquare,
   steppedWave,
+  harmonicElimination,
   sixStep,
   spwm,
   threePhasePwm,
