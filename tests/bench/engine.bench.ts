@@ -38,6 +38,7 @@ const sheet: SheetBlock[] = [
 const singleBlocks: SheetBlock[] = [
   { id: "pwm3", calculator: "three-phase-pwm", inputs: { vdc: "540 V", ma: "1.1", mf: "51", reference: "svpwm", sampling: "regular-asymmetric", f: "400 Hz", hmax: "200" } },
   { id: "she", calculator: "harmonic-elimination", inputs: { vdc: "48 V", wave: "stepped", m: "0.8", eliminate: "5, 7, 11", f: "50 Hz" } },
+  { id: "ripple", calculator: "inductor-ripple", inputs: { vdc: "400 V", l: "1.5 mH", fsw: "20 kHz", ma: "0.8", scheme: "unipolar", bridge: "full", f: "50 Hz", rLoad: "10 ohm" } },
   { id: "sheNone", calculator: "harmonic-elimination", inputs: { vdc: "48 V", wave: "stepped", m: "0.95", eliminate: "5, 7, 11, 13, 17", f: "50 Hz" } },
 ];
 

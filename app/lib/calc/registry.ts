@@ -8,6 +8,7 @@ import { calculator as formula } from "./calculators/formula";
 import { calculator as halfBridge } from "./calculators/half-bridge";
 import { calculator as harmonicElimination } from "./calculators/harmonic-elimination";
 import { calculator as harmonicLimits } from "./calculators/harmonic-limits";
+import { calculator as inductorRipple } from "./calculators/inductor-ripple";
 import { calculator as lcFilter } from "./calculators/lc-filter";
 import { calculator as quasiSquare } from "./calculators/quasi-square";
 import { calculator as sixStep } from "./calculators/six-step";
@@ -27,6 +28,7 @@ export const calculators: readonly Calculator[] = [
   spwm,
   threePhasePwm,
   halfBridge,
+  inductorRipple,
   lcFilter,
   dcLink,
   switchStress,
