@@ -411,7 +411,8 @@ export const calculator: Calculator = {
 
     const results: Results = {
       solved: described.length > 0,
-      solutionCount: scalar(described.length, ""),
+      // A count: shown as a whole number, not to three significant figures.
+      solutionCount: { value: described.length, unit: "", display: String(described.length) },
       v1Peak: scalar(v1Peak, "V"),
       v1Rms: scalar(v1Peak / Math.SQRT2, "V"),
       vrms: scalar(vrms, "V"),

@@ -354,6 +354,7 @@ export const calculator: Calculator = {
     "Phase voltage is to the floating neutral of a balanced star load; common-mode (triplen) components appear in neither line nor phase voltage.",
     "Harmonic percentages are of the fundamental (THD_F, as in IEEE Std 519). thd counts every component exactly (from the RMS); thd40 and thd50 count orders to 40 and 50; none depends on hmax.",
     "Weighted THD divides each line by its order (Holmes & Lipo's definition), a proxy for the ripple current of an inductive load; exact, no truncation.",
+    "DPWM1's offset jumps where the clamped phase changes; with natural sampling those jumps fall inside carrier periods and add low-order lines (a few percent at mf = 51). Regular sampling puts them on sampling instants.",
     "Ideal switches, no dead time, stiff DC link. mf must be a whole number of at least 9, and ma at most 2, so the carrier ramps are steeper than any reference.",
   ],
   sources: [
