@@ -10,6 +10,7 @@ import { calculator as harmonicElimination } from "./calculators/harmonic-elimin
 import { calculator as harmonicLimits } from "./calculators/harmonic-limits";
 import { calculator as inductorRipple } from "./calculators/inductor-ripple";
 import { calculator as lcFilter } from "./calculators/lc-filter";
+import { calculator as lossesThermal } from "./calculators/losses-thermal";
 import { calculator as quasiSquare } from "./calculators/quasi-square";
 import { calculator as sixStep } from "./calculators/six-step";
 import { calculator as spwm } from "./calculators/spwm";
@@ -32,6 +33,7 @@ export const calculators: readonly Calculator[] = [
   lcFilter,
   dcLink,
   switchStress,
+  lossesThermal,
   harmonicLimits,
   formula,
 ];
