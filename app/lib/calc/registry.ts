@@ -10,6 +10,7 @@ import { calculator as harmonicElimination } from "./calculators/harmonic-elimin
 import { calculator as harmonicLimits } from "./calculators/harmonic-limits";
 import { calculator as inductorRipple } from "./calculators/inductor-ripple";
 import { calculator as lcFilter } from "./calculators/lc-filter";
+import { calculator as lclFilter } from "./calculators/lcl-filter";
 import { calculator as lossesThermal } from "./calculators/losses-thermal";
 import { calculator as quasiSquare } from "./calculators/quasi-square";
 import { calculator as sixStep } from "./calculators/six-step";
@@ -31,6 +32,7 @@ export const calculators: readonly Calculator[] = [
   halfBridge,
   inductorRipple,
   lcFilter,
+  lclFilter,
   dcLink,
   switchStress,
   lossesThermal,
