@@ -366,7 +366,6 @@ export const calculator: Calculator = {
   cautions: [
     LETHAL_VOLTAGE_CAUTION,
     "Dead time, device drops and a DC link with ripple add low-order harmonics that this ideal model does not show; confirm compliance-relevant harmonics by measurement.",
-    "Discontinuous PWM leaves each leg unswitched for a third of the cycle: switching losses fall, but the device carrying the peak current stays on longer.",
   ],
   compute(inputs) {
     const vdc = readQuantity(inputs, vdcInput);
@@ -388,6 +387,9 @@ export const calculator: Calculator = {
     }
     if (mf % 3 !== 0) {
       warnings.push(`mf = ${mf} is not a multiple of 3: the three legs see the carrier at different phases, and the line voltages differ slightly from one another.`);
+    }
+    if (reference === "dpwm1") {
+      warnings.push("DPWM1 leaves each leg unswitched for a third of the cycle: switching losses fall, but the device carrying the peak current stays on longer.");
     }
     if (mf % 2 === 0) warnings.push(`mf = ${mf} is even: the wave loses half-wave symmetry, so even harmonics appear.`);
 
