@@ -25,7 +25,7 @@ describe("engine API", () => {
     const body = await response.json();
     expect(body.engineVersion).toMatch(/^\d+\.\d+\.\d+$/);
     expect(body.calculators.map((c: { id: string }) => c.id).sort()).toEqual(
-      ["dc-link", "formula", "half-bridge", "harmonic-limits", "lc-filter", "quasi-square", "six-step", "spwm", "stepped-wave", "switch-stress", "three-phase-pwm", "harmonic-elimination", "inductor-ripple", "losses-thermal", "lcl-filter"].sort(),
+      ["dc-link", "formula", "half-bridge", "harmonic-limits", "lc-filter", "quasi-square", "six-step", "spwm", "stepped-wave", "switch-stress", "three-phase-pwm", "harmonic-elimination", "inductor-ripple", "losses-thermal", "lcl-filter", "dead-time"].sort(),
     );
     const quasiSquare = body.calculators.find((c: { id: string }) => c.id === "quasi-square");
     const alpha = quasiSquare.inputs.find((i: { key: string }) => i.key === "alpha");

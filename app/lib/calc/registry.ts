@@ -4,6 +4,7 @@
  * its module here (and bumping ENGINE_VERSION's minor number).
  */
 import { calculator as dcLink } from "./calculators/dc-link";
+import { calculator as deadTime } from "./calculators/dead-time";
 import { calculator as formula } from "./calculators/formula";
 import { calculator as halfBridge } from "./calculators/half-bridge";
 import { calculator as harmonicElimination } from "./calculators/harmonic-elimination";
@@ -29,6 +30,7 @@ export const calculators: readonly Calculator[] = [
   sixStep,
   spwm,
   threePhasePwm,
+  deadTime,
   halfBridge,
   inductorRipple,
   lcFilter,

@@ -6,7 +6,7 @@ import { ENGINE_VERSION } from "~/lib/calc/version";
 describe("registry", () => {
   it("lists every calculator, each id once", () => {
     expect(calculators.map((c) => c.id).sort()).toEqual(
-      ["dc-link", "formula", "half-bridge", "harmonic-limits", "lc-filter", "quasi-square", "six-step", "spwm", "stepped-wave", "switch-stress", "three-phase-pwm", "harmonic-elimination", "inductor-ripple", "losses-thermal", "lcl-filter"].sort(),
+      ["dc-link", "formula", "half-bridge", "harmonic-limits", "lc-filter", "quasi-square", "six-step", "spwm", "stepped-wave", "switch-stress", "three-phase-pwm", "harmonic-elimination", "inductor-ripple", "losses-thermal", "lcl-filter", "dead-time"].sort(),
     );
   });
 
