@@ -7,6 +7,7 @@
  */
 import { calculator as spwm, closedFormSpectrum } from "../../app/lib/calc/calculators/spwm";
 import { calculator as quasiSquare } from "../../app/lib/calc/calculators/quasi-square";
+import { calculator as threePhasePwm } from "../../app/lib/calc/calculators/three-phase-pwm";
 import type { ParsedInputs } from "../../app/lib/calc/types";
 import { cellAveragedSpectrum, comparatorCellFractions, sampledSpectrum, triangle } from "../unit/calc/fft-reference";
 
@@ -55,6 +56,23 @@ report("spwm compute, h ≤ 500, ma 1.3, mf 21 (overmodulation)", measure(() => 
 report("spwm compute, h ≤ 500, ma 1.0, mf 3 (worst-case folding)", measure(() => spwm.compute(spwmInputs({ ma: 1, mf: 3 }), context), 1000));
 report("spwm Bessel sideband sums only, h ≤ 500, mf 21", measure(() => closedFormSpectrum(0.8, 21, "bipolar", 500), 3000));
 report("quasi-square compute, h ≤ 500", measure(() => quasiSquare.compute({ vdc: 48, alpha: 30, f: 50, hmax: 500 }, context), 3000));
+
+
+const threePhaseInputs = (overrides: Partial<Record<string, number | string>>): ParsedInputs => ({
+  vdc: 540,
+  ma: 0.9,
+  mf: 51,
+  reference: "svpwm",
+  sampling: "natural",
+  f: 400,
+  hmax: 500,
+  ...overrides,
+});
+report("three-phase-pwm, h ≤ 500, SVPWM, ma 0.9, mf 51, natural", measure(() => threePhasePwm.compute(threePhaseInputs({}), context), 1000), 2);
+report("three-phase-pwm, h ≤ 500, sine, ma 0.9, mf 51, natural", measure(() => threePhasePwm.compute(threePhaseInputs({ reference: "sine" }), context), 1000), 2);
+report("three-phase-pwm, h ≤ 500, DPWM1, ma 1.1, mf 51, regular symmetric", measure(() => threePhasePwm.compute(threePhaseInputs({ reference: "dpwm1", ma: 1.1, sampling: "regular-symmetric" }), context), 1000), 2);
+report("three-phase-pwm, h ≤ 500, SVPWM, ma 0.9, mf 50 (all three legs solved)", measure(() => threePhasePwm.compute(threePhaseInputs({ mf: 50 }), context), 500), 2);
+report("three-phase-pwm, h ≤ 500, SVPWM, ma 0.9, mf 201", measure(() => threePhasePwm.compute(threePhaseInputs({ mf: 201 }), context), 500), 2);
 
 console.log("");
 const points = 2 ** 16;

@@ -4,15 +4,21 @@
  * its module here (and bumping ENGINE_VERSION's minor number).
  */
 import { calculator as dcLink } from "./calculators/dc-link";
+import { calculator as deadTime } from "./calculators/dead-time";
 import { calculator as formula } from "./calculators/formula";
 import { calculator as halfBridge } from "./calculators/half-bridge";
+import { calculator as harmonicElimination } from "./calculators/harmonic-elimination";
 import { calculator as harmonicLimits } from "./calculators/harmonic-limits";
+import { calculator as inductorRipple } from "./calculators/inductor-ripple";
 import { calculator as lcFilter } from "./calculators/lc-filter";
+import { calculator as lclFilter } from "./calculators/lcl-filter";
+import { calculator as lossesThermal } from "./calculators/losses-thermal";
 import { calculator as quasiSquare } from "./calculators/quasi-square";
 import { calculator as sixStep } from "./calculators/six-step";
 import { calculator as spwm } from "./calculators/spwm";
 import { calculator as steppedWave } from "./calculators/stepped-wave";
 import { calculator as switchStress } from "./calculators/switch-stress";
+import { calculator as threePhasePwm } from "./calculators/three-phase-pwm";
 import type { Calculator } from "./types";
 import { ENGINE_VERSION } from "./version";
 
@@ -20,12 +26,18 @@ import { ENGINE_VERSION } from "./version";
 export const calculators: readonly Calculator[] = [
   quasiSquare,
   steppedWave,
+  harmonicElimination,
   sixStep,
   spwm,
+  threePhasePwm,
+  deadTime,
   halfBridge,
+  inductorRipple,
   lcFilter,
+  lclFilter,
   dcLink,
   switchStress,
+  lossesThermal,
   harmonicLimits,
   formula,
 ];

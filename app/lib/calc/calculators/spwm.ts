@@ -103,7 +103,7 @@ const mfInput: QuantityInputSpec = {
   default: "21",
 };
 
-const schemeInput: ChoiceInputSpec = {
+export const schemeInput: ChoiceInputSpec = {
   key: "scheme",
   label: "Switching scheme",
   description: "Bipolar: the output swings between + and −. Unipolar (full bridge only): each leg has its own reference, the output steps +, 0, −.",
@@ -115,7 +115,7 @@ const schemeInput: ChoiceInputSpec = {
   default: "bipolar",
 };
 
-const bridgeInput: ChoiceInputSpec = {
+export const bridgeInput: ChoiceInputSpec = {
   key: "bridge",
   label: "Bridge",
   description: "Half bridge: output from one leg to the DC midpoint. Full bridge: output between two legs.",
@@ -199,7 +199,7 @@ export function closedFormSpectrum(ma: number, mf: number, scheme: PwmScheme, hi
 }
 
 /** The triangle carrier, −1 … +1, with a valley at θ = 90°. */
-function carrier(theta: number, mf: number): number {
+export function carrier(theta: number, mf: number): number {
   const x = mf * (theta - Math.PI / 2);
   const wrapped = x - 2 * Math.PI * Math.round(x / (2 * Math.PI));
   return (2 * Math.abs(wrapped)) / Math.PI - 1;
