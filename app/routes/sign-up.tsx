@@ -5,6 +5,7 @@ import { FormError, TextField } from "~/components/form-fields";
 import { fieldErrors, safeNext, signUpForm, type FieldErrors } from "~/lib/forms/account";
 import { getSignedIn } from "~/.server/access";
 import { callAuthEndpoint } from "~/.server/auth";
+import { config } from "~/.server/config";
 import { actionRetryAfter, authErrorMessage, cookiesFrom, retryAfterHeaders } from "~/.server/auth-response";
 
 export const headers = actionRetryAfter;
@@ -31,7 +32,7 @@ export async function action({ request }: Route.ActionArgs) {
     );
   }
   // A new account has no team yet: it either accepts an invitation (next) or starts a team.
-  throw redirect(safeNext(form.next, "/teams/new"), { headers: cookiesFrom(response) });
+  throw redirect(safeNext(form.next, config().APP_URL, "/teams/new"), { headers: cookiesFrom(response) });
 }
 
 export default function SignUp() {

@@ -104,6 +104,17 @@ describe("accounts: sign-up, sign-in, sign-out, password reset", () => {
     expect(response.headers.get("location")).toBe("/sheets");
   });
 
+  it("sends a signed-in visitor only to same-origin paths written plainly (tab, newline, slashes, backslashes refused)", async () => {
+    const visitor = await new Visitor().signIn("viewer@example.com");
+    for (const next of ["/%09/evil.example", "/%0A/evil.example", "//evil.example", "/%5Cevil.example", "%5C/evil.example", "/%252F%252Fevil.example", "javascript:alert(1)", "https://evil.example"]) {
+      const response = await visitor.get(`/sign-in?next=${next}`);
+      expect(response.status, next).toBe(302);
+      expect(response.headers.get("location"), next).toBe("/sheets");
+    }
+    const fine = await visitor.get(`/sign-in?next=${encodeURIComponent("/search?q=dead time")}`);
+    expect(fine.headers.get("location")).toBe("/search?q=dead%20time");
+  });
+
   it("answers /healthz with the database reachable", async () => {
     const response = await fetch(new URL("/healthz", BASE_URL));
     expect(response.status).toBe(200);
