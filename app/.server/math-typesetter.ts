@@ -58,8 +58,6 @@ function startWorker(): Worker {
     workerData: { katexPath: createRequire(import.meta.url).resolve("katex"), options: KATEX_OPTIONS },
     resourceLimits: { maxOldGenerationSizeMb: WORKER_HEAP_MB, maxYoungGenerationSizeMb: 16, stackSizeMb: 4 },
   });
-  // An idle worker does not keep the process alive (tests and graceful shutdown).
-  started.unref();
   started.on("message", (message: { job: number; html: string | null; error: string | null }) => {
     const job = running;
     if (!job || message.job !== job.id) return;
@@ -73,6 +71,9 @@ function startWorker(): Worker {
   };
   started.on("error", ended);
   started.on("exit", ended);
+  // An idle worker does not keep the process alive (scripts, tests, graceful shutdown); set after
+  // the listeners, which would otherwise hold it.
+  started.unref();
   return started;
 }
 

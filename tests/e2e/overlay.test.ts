@@ -1,0 +1,84 @@
+// A sheet may not paint over the page that frames it. Each formula below stays inside
+// the bounds the check allows (a raise of 10 em, a rule of 10 em, a step back of 3 em),
+// but nested they reach 50 em up and far to the left: without the sheet body's clipping
+// they would cover the title block, the state and the verification stamp.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { openBrowser, signInThroughPage, type BrowserSession } from "../support/browser";
+import { BASE_URL, teamWithRoles } from "../support/http";
+
+const raised = (depth: number, inner: string): string => (depth === 0 ? inner : `\\raisebox{10em}{${raised(depth - 1, inner)}}`);
+const COVER = "\\color{green}\\rule{10em}{10em}";
+const OVERLAY_SHEET = [
+  "# Overlay attempt",
+  "",
+  `$${raised(5, `\\llap{${COVER}\\kern-3em${COVER}}${COVER}${COVER}${COVER}`)}$`,
+  "",
+  `Lower down: $${raised(5, `\\llap{${COVER}${COVER}${COVER}}`)}$ and $\\kern-3em\\kern-3em\\llap{${COVER}}$`,
+].join("\n");
+
+let label = "";
+let engineer = { email: "", password: "" };
+
+beforeAll(async () => {
+  const { people } = await teamWithRoles("overlay", ["engineer", "checker"]);
+  const author = people.engineer!.visitor;
+  const created = await author.postForm("/sheets/new", { title: "Overlay attempt", projectId: "", tags: "" });
+  label = created.headers.get("location")!.split("/")[2]!;
+  const saved = await author.postForm(`/sheets/${label}/edit`, { intent: "save", source: OVERLAY_SHEET, baseRevisionId: "", note: "" });
+  if (saved.status !== 302) throw new Error(`saving the overlay sheet answered ${saved.status}: ${(await saved.text()).slice(0, 300)}`);
+  await author.postForm(`/sheets/${label}`, { intent: "submit", checkerId: people.checker!.userId });
+  const stamped = await people.checker!.visitor.postForm(`/sheets/${label}`, { intent: "stamp" });
+  if (stamped.status !== 200) throw new Error(`stamping answered ${stamped.status}`);
+  engineer = { email: people.engineer!.email, password: "correct-horse-battery" };
+});
+
+/** Points spread over an element's box: each must hit the element itself (or something inside it), never the sheet's math. */
+async function uncoveredShare(page: Page, selector: string): Promise<{ points: number; covered: string[] }> {
+  return page.locator(selector).first().evaluate((target) => {
+    target.scrollIntoView({ block: "center" });
+    const box = target.getBoundingClientRect();
+    const covered: string[] = [];
+    let points = 0;
+    for (const fx of [0.05, 0.25, 0.5, 0.75, 0.95]) {
+      for (const fy of [0.1, 0.5, 0.9]) {
+        const x = box.left + box.width * fx;
+        const y = box.top + box.height * fy;
+        if (x < 0 || y < 0 || x >= innerWidth || y >= innerHeight) continue;
+        points += 1;
+        const hit = document.elementFromPoint(x, y);
+        if (!hit || !target.contains(hit)) covered.push(`${Math.round(x)},${Math.round(y)}: ${hit?.tagName}.${hit?.className}`);
+      }
+    }
+    return { points, covered };
+  });
+}
+
+describe.each([1280, 390])("a sheet that tries to paint over its page, at %i px", (width) => {
+  let session: BrowserSession;
+  beforeAll(async () => {
+    session = await openBrowser({ width, height: 900 });
+    await signInThroughPage(session.page, engineer.email, engineer.password);
+  });
+  afterAll(async () => {
+    await session?.close();
+  });
+
+  it("leaves the title block, the state and the stamp visible and unobscured", async () => {
+    const { page } = session;
+    await page.goto(`${BASE_URL}/sheets/${label}`);
+    // The formulas are there and do reach out of the body's box: the clipping is what keeps them in.
+    const body = await page.locator(".prose-sheet").first().boundingBox();
+    const math = await page.locator(".prose-sheet .katex .rule").evaluateAll((rules) => rules.map((r) => r.getBoundingClientRect().top + scrollY));
+    expect(math.length).toBeGreaterThan(10);
+    expect(Math.min(...math)).toBeLessThan(body!.y - 200);
+
+    for (const selector of ['section[aria-label="Title block"]', '[role="img"][aria-label^="Verified by"]']) {
+      const { points, covered } = await uncoveredShare(page, selector);
+      expect(points, selector).toBeGreaterThan(0);
+      expect(covered, selector).toEqual([]);
+    }
+    await expect.poll(() => page.locator('section[aria-label="Title block"]').getByText("verified", { exact: false }).first().isVisible()).toBe(true);
+    if (process.env.SCREENSHOTS_DIR) await page.screenshot({ path: `${process.env.SCREENSHOTS_DIR}/overlay-${width}.png`, fullPage: true });
+  });
+});
