@@ -39,8 +39,9 @@ async function coveredPoints(page: BrowserSession["page"], selector: string): Pr
     const box = target.getBoundingClientRect();
     const covered: string[] = [];
     let points = 0;
-    for (const fx of [0.02, 0.25, 0.5, 0.75, 0.98]) {
-      for (const fy of [0.1, 0.5, 0.9]) {
+    // Inset from the edges: the stamp's cut corner shows the page behind it.
+    for (const fx of [0.1, 0.3, 0.5, 0.7, 0.85]) {
+      for (const fy of [0.25, 0.5, 0.85]) {
         const x = box.left + box.width * fx;
         const y = box.top + box.height * fy;
         if (x < 0 || y < 0 || x >= innerWidth || y >= innerHeight) continue;
