@@ -28,14 +28,19 @@ export async function readJson<T extends z.ZodType>(request: Request, schema: T)
     throw apiError(400, "The body is not valid JSON.");
   }
   const parsed = schema.safeParse(body);
-  if (!parsed.success) {
-    throw apiError(
-      400,
-      "The request body does not have the expected shape.",
-      parsed.error.issues.map((issue) => ({ field: issue.path.join(".") || "body", message: issue.message })),
-    );
-  }
+  if (!parsed.success) throw apiError(400, "The request body does not have the expected shape.", issueList(parsed.error, "body"));
   return parsed.data;
+}
+
+/** Reads the query string with a schema; an over-long or malformed parameter is a 400 that names it, never a 500. */
+export function readQuery<T extends z.ZodType>(request: Request, schema: T): z.infer<T> {
+  const parsed = schema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
+  if (!parsed.success) throw apiError(400, parsed.error.issues[0]?.message ?? "A query parameter is not valid.", issueList(parsed.error, "query"));
+  return parsed.data;
+}
+
+function issueList(error: z.ZodError, whole: string): { field: string; message: string }[] {
+  return error.issues.map((issue) => ({ field: issue.path.join(".") || whole, message: issue.message }));
 }
 
 export function methodNotAllowed(allowed: string): Response {

@@ -1,4 +1,5 @@
 import { betterAuth } from "better-auth";
+import { APIError, createAuthMiddleware } from "better-auth/api";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
 import { organization } from "better-auth/plugins";
 import { createAccessControl } from "better-auth/plugins/access";
@@ -24,6 +25,26 @@ const roles = {
 export const SESSION_SECONDS = 60 * 60 * 24 * 14;
 export const SESSION_REFRESH_SECONDS = 60 * 60 * 24;
 
+/**
+ * better-auth's own endpoints for changing a team. The Team, invitation and new-team
+ * pages make these changes through `auth().api` and record each in the team's
+ * activity; called straight over HTTP they would skip that record, so the handler
+ * refuses them.
+ */
+const TEAM_CHANGES_THROUGH_PAGES = new Set([
+  "/organization/create",
+  "/organization/update",
+  "/organization/delete",
+  "/organization/invite-member",
+  "/organization/cancel-invitation",
+  "/organization/accept-invitation",
+  "/organization/reject-invitation",
+  "/organization/remove-member",
+  "/organization/update-member-role",
+  "/organization/add-member",
+  "/organization/leave",
+]);
+
 /** The client IP header our server sets from the socket (or trusted proxy); clients cannot forge it. */
 export const CLIENT_IP_HEADER = "x-sinewright-client-ip";
 
@@ -41,6 +62,20 @@ function createAuth() {
       minPasswordLength: 10,
       resetPasswordTokenExpiresIn: 60 * 60,
       revokeSessionsOnPasswordReset: true,
+      // Sign-up answers the same whether or not the address has an account: a new account
+      // gets a link to confirm its address (which signs it in), an existing one a note instead.
+      autoSignIn: false,
+      async onExistingUserSignUp({ user }) {
+        await enqueueMail({
+          to: user.email,
+          subject: "Someone tried to create a Sinewright account with your address",
+          text:
+            `Someone (hopefully you) tried to create a Sinewright account for ${user.email}, which already has one.\n\n` +
+            `Sign in here: ${new URL("/sign-in", cfg.APP_URL)}\n` +
+            `Forgotten the password? Choose a new one here: ${new URL("/forgot-password", cfg.APP_URL)}\n\n` +
+            `If it was not you, ignore this message; nothing has changed.`,
+        });
+      },
       async sendResetPassword({ user, url }) {
         await enqueueMail({
           to: user.email,
@@ -51,6 +86,29 @@ function createAuth() {
             `If you did not ask for this, ignore this message; your password stays as it is.`,
         });
       },
+    },
+    emailVerification: {
+      sendOnSignUp: true,
+      autoSignInAfterVerification: true,
+      expiresIn: 60 * 60 * 24,
+      async sendVerificationEmail({ user, url }) {
+        await enqueueMail({
+          to: user.email,
+          subject: "Confirm your e-mail address for Sinewright",
+          text:
+            `Welcome to Sinewright, ${user.name}.\n\n` +
+            `Confirm that ${user.email} is yours and sign in here (the link works for one day):\n${url}\n\n` +
+            `If you did not create an account, ignore this message.`,
+        });
+      },
+    },
+    hooks: {
+      before: createAuthMiddleware(async (ctx) => {
+        // Only calls that came over HTTP carry a request; the pages call auth().api without one.
+        if (ctx.request && TEAM_CHANGES_THROUGH_PAGES.has(ctx.path)) {
+          throw new APIError("FORBIDDEN", { message: "Team changes are made on Sinewright's Team page, which records them in the team's activity." });
+        }
+      }),
     },
     session: { expiresIn: SESSION_SECONDS, updateAge: SESSION_REFRESH_SECONDS },
     rateLimit: {
@@ -87,6 +145,8 @@ function createAuth() {
         allowUserToCreateOrganization: true,
         invitationExpiresIn: 60 * 60 * 24 * 7,
         cancelPendingInvitationsOnReInvite: true,
+        // Joining a team needs the invited address to be the account's, confirmed.
+        requireEmailVerificationOnInvitation: true,
         async sendInvitationEmail({ email, role, organization: team, inviter, id }) {
           const url = new URL(`/invitations/${id}`, cfg.APP_URL).toString();
           await enqueueMail({

@@ -12,6 +12,7 @@ import { setCitationRevision } from "~/lib/mdx";
 import type { SourceCitation, SourceProblem } from "~/lib/mdx/types";
 import { documentNumberLabel, parseSheetNumber, sheetNumberLabel } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
+import { prepareUntrustedSheet } from "./math-typesetter";
 import type { Member } from "./access";
 import { recordAudit } from "./audit";
 import { db, type Database } from "./db/client";
@@ -168,7 +169,7 @@ export async function saveDocumentVersion(
   document: { id: string },
   input: { source: string; baseVersionId: string | null; note: string },
 ): Promise<DocumentSaveOutcome> {
-  const prepared = prepareSheet(input.source, "document");
+  const prepared = await prepareUntrustedSheet(input.source, "document");
   if (!prepared.ok) return { ok: false, reason: "invalid", problems: prepared.problems };
   const outcome = await db().transaction(async (tx) => {
     const [current] = await tx.select().from(projectDocument).where(eq(projectDocument.id, document.id)).for("update");
@@ -341,7 +342,8 @@ export async function updateCitation(me: Member, documentId: string, citation: {
           : `${status.sheet} has no verified revision yet; the citation can be updated once one is stamped.`,
       );
     }
-    const checked = prepareSheet(latest!.source, "document");
+    // Only the citations are read here: the formulas are not typeset.
+    const checked = prepareSheet(latest!.source, "document", {}, null);
     if (!checked.ok) throw new DocumentRuleError("The document's latest version no longer passes the source check; open it in the editor.");
     let source: string;
     try {
@@ -349,7 +351,7 @@ export async function updateCitation(me: Member, documentId: string, citation: {
     } catch (error) {
       throw new DocumentRuleError(error instanceof Error ? error.message : String(error));
     }
-    const next = prepareSheet(source, "document");
+    const next = await prepareUntrustedSheet(source, "document");
     if (!next.ok) throw new DocumentRuleError("The updated citation did not pass the source check; edit the document instead.");
     const note = `Citation ${status.sheet} moved from revision ${status.rev} (${status.state}) to ${status.updateTo.label}, its newest verified revision.`;
     const saved = await writeVersion(tx, me, current, { source, tree: next.tree, citations: next.citations, note });

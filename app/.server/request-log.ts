@@ -92,16 +92,24 @@ function patternRegex(pattern: string): RegExp {
   return new RegExp(`^${body}/?$`, "i");
 }
 
-const SECRET_QUERY = /token|password|secret|key|code|signature|session/i;
+const SECRET_QUERY = /token|password|secret|key|code|signature|session|invitation/i;
+/** An invitation's id is its link's only secret: whoever has it can open the invitation. */
+const INVITATION_PATH = /(\/invitations\/)[^/?#]+/g;
 
 /**
  * The URL as a log may show it: query values that could be credentials (reset
- * tokens, keys) and the token in better-auth's reset-password path are replaced.
+ * tokens, keys, invitation ids), the token in better-auth's reset-password path and
+ * the id in an invitation's path — also where a path is a query value (`?next=…`) —
+ * are replaced.
  */
 export function redactUrl(rawUrl: string): string {
   const url = new URL(rawUrl, "http://log.invalid");
-  const pathname = url.pathname.replace(/(\/reset-password\/)[^/]+/, "$1[redacted]");
-  for (const name of [...url.searchParams.keys()]) if (SECRET_QUERY.test(name)) url.searchParams.set(name, "[redacted]");
+  const pathname = url.pathname.replace(/(\/reset-password\/)[^/]+/, "$1[redacted]").replace(INVITATION_PATH, "$1[redacted]");
+  const invitationEndpoint = /\/organization\/[a-z-]*invitation/i.test(pathname);
+  for (const [name, value] of [...url.searchParams]) {
+    if (SECRET_QUERY.test(name) || (invitationEndpoint && name === "id")) url.searchParams.set(name, "[redacted]");
+    else if (value.includes("/invitations/")) url.searchParams.set(name, value.replace(INVITATION_PATH, "$1[redacted]"));
+  }
   const search = url.searchParams.toString();
   return search ? `${pathname}?${search.replaceAll("%5Bredacted%5D", "[redacted]")}` : pathname;
 }

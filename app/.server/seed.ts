@@ -1,4 +1,3 @@
-import { eq } from "drizzle-orm";
 import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
 import path from "node:path";
@@ -47,10 +46,13 @@ export async function seedDemo(): Promise<{ seeded: boolean; demo: DemoTeam; con
   const content = await loadDemoSheets(demo);
 
   const userIds: Record<string, string> = {};
+  // Demo accounts are made verified through better-auth's own adapter (sign-up would mail each a confirmation link).
+  const authContext = await auth().$context;
+  const passwordHash = await authContext.password.hash(demo.password);
   for (const person of demo.members) {
-    const created = await auth().api.signUpEmail({ body: { email: person.email, password: demo.password, name: person.name } });
-    userIds[person.email] = created.user.id;
-    await db().update(user).set({ emailVerified: true }).where(eq(user.id, created.user.id));
+    const created = await authContext.internalAdapter.createUser({ email: person.email, name: person.name, emailVerified: true }, { method: "email-password" });
+    await authContext.internalAdapter.linkAccount({ userId: created.id, providerId: "credential", accountId: created.id, password: passwordHash });
+    userIds[person.email] = created.id;
   }
   const [team] = await db().insert(organization).values({ id: crypto.randomUUID(), name: demo.team.name, slug: demo.team.slug, createdAt: new Date() }).returning();
   for (const person of demo.members) {

@@ -1,6 +1,7 @@
 import { and, asc, desc, eq, inArray, sql, type SQL } from "drizzle-orm";
 import { sheetNumberLabel, revisionLabel } from "~/lib/sheets/numbering";
-import { hashedBlocks, hashPrepared, measuredAttachmentIds, prepareSheet } from "~/lib/sheets/pipeline";
+import { hashedBlocks, hashPrepared, measuredAttachmentIds } from "~/lib/sheets/pipeline";
+import { prepareUntrustedSheet } from "./math-typesetter";
 import type { SourceProblem } from "~/lib/mdx/types";
 import { capturesForSheet, linkRevisionAttachments } from "./attachments";
 import { recordAudit } from "./audit";
@@ -210,7 +211,7 @@ export async function saveRevision(
   input: { source: string; baseRevisionId: string | null; note: string },
 ): Promise<SaveOutcome> {
   // Measured-waveform blocks read the sheet's stored capture analyses, never the samples.
-  const prepared = prepareSheet(input.source, "sheet", await capturesForSheet(sheet.id));
+  const prepared = await prepareUntrustedSheet(input.source, "sheet", await capturesForSheet(sheet.id));
   // Refused sources are not stored anywhere; the author's text stays in their editor.
   if (!prepared.ok) return { ok: false, reason: "invalid", problems: prepared.problems };
   const contentHash = await hashPrepared(input.source, prepared);

@@ -1,20 +1,17 @@
-import { z } from "zod";
 import type { Route } from "./+types/api.v1.calculators.$calculatorId.evaluate";
 import { evaluateCalculator } from "~/lib/calc/evaluate-sheet";
 import { getCalculator } from "~/lib/calc/registry";
+import { calculatorInputsBody } from "~/lib/forms/api";
 import { requireMember } from "~/.server/access";
 import { apiError, methodNotAllowed, readJson, resultsJson } from "~/.server/api";
 
-const body = z.object({
-  inputs: z.record(z.string(), z.unknown(), { message: "`inputs` must be an object of input key → value, e.g. {\"vdc\": \"48 V\"}." }).default({}),
-});
 
 /** POST /api/v1/calculators/:id/evaluate with { inputs } → { calculator, engineVersion, results, warnings }. */
 export async function action({ request, params }: Route.ActionArgs) {
   await requireMember(request, "viewer");
   if (request.method !== "POST") return methodNotAllowed("POST");
   if (!getCalculator(params.calculatorId)) return apiError(404, `No calculator "${params.calculatorId}". GET /api/v1/calculators lists them.`);
-  const { inputs } = await readJson(request, body);
+  const { inputs } = await readJson(request, calculatorInputsBody);
   const outcome = evaluateCalculator(params.calculatorId, inputs);
   if (!outcome.ok) return apiError(400, "Some inputs need fixing.", outcome.errors);
   return resultsJson({ calculator: outcome.calculator, engineVersion: outcome.engineVersion, results: outcome.results, warnings: outcome.warnings });

@@ -1,13 +1,13 @@
 import type { Route } from "./+types/api.v1.search";
 import { searchQuery } from "~/lib/forms/search";
 import { requireMember } from "~/.server/access";
-import { methodNotAllowed } from "~/.server/api";
+import { methodNotAllowed, readQuery } from "~/.server/api";
 import { hitView, runSearch } from "~/.server/search-query";
 
 /** GET /api/v1/search?q=… — the team's sheets ranked for the query, with highlighted snippets as data. */
 export async function loader({ request }: Route.LoaderArgs) {
   const me = await requireMember(request, "viewer");
-  const query = searchQuery.parse(Object.fromEntries(new URL(request.url).searchParams));
+  const query = readQuery(request, searchQuery);
   const result = await runSearch(me, query);
   if (!result) return Response.json({ query: "", hits: [], total: 0, engine: null });
   return Response.json({

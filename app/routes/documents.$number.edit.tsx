@@ -10,6 +10,7 @@ import { sourceEditorForm } from "~/lib/forms/sheets";
 import type { SourceProblem } from "~/lib/mdx/types";
 import { parseDocumentNumber, parseSheetNumber, sheetNumberLabel } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
+import { prepareUntrustedSheet } from "~/.server/math-typesetter";
 import { requireMember } from "~/.server/access";
 import { citableSheets, discardDocumentDraft, getDocument, getDocumentDraft, getVersion, saveDocumentDraft, saveDocumentVersion, STARTER_DOCUMENT } from "~/.server/documents";
 
@@ -30,10 +31,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     getDocumentDraft(document.id, me.user.id),
     citableSheets(me.team.teamId),
   ]);
+  const source = draft?.source ?? latest?.source ?? STARTER_DOCUMENT;
   return {
     document: { label: document.label, title: document.title, projectCode: document.projectCode },
     base: latest ? { id: latest.id, sequence: latest.sequence } : null,
-    source: draft?.source ?? latest?.source ?? STARTER_DOCUMENT,
+    source,
+    // The first preview, typeset in the server's worker: a draft is untrusted text.
+    opening: await prepareUntrustedSheet(source, "document"),
     draft: draft ? { updatedAt: draft.updatedAt.toISOString(), staleBase: (draft.baseVersionId ?? null) !== (latest?.id ?? null) } : null,
     sheets,
   };
@@ -72,7 +76,10 @@ export default function DocumentEditor() {
   const view = useRef<EditorView | null>(null);
   const [filter, setFilter] = useState("");
   const deferredSource = useDeferredValue(source);
-  const prepared = useMemo(() => prepareSheet(deferredSource, "document"), [deferredSource]);
+  const prepared = useMemo(
+    () => (deferredSource === loaded.source ? loaded.opening : prepareSheet(deferredSource, "document")),
+    [deferredSource, loaded.source, loaded.opening],
+  );
 
   // The preview decides each citation's state from the revisions the page loaded (stamps are re-checked on the document page).
   const preview = useMemo(() => {

@@ -1,11 +1,11 @@
 import { data, Form, Link, redirect, useActionData, useLoaderData, useLocation } from "react-router";
 import type { Route } from "./+types/invitation";
 import { AuthFrame } from "~/components/auth-frame";
-import { FormError } from "~/components/form-fields";
+import { FormError, Notice } from "~/components/form-fields";
 import { getSignedIn } from "~/.server/access";
 import { auth } from "~/.server/auth";
 import { recordAudit } from "~/.server/audit";
-import { getInvitation } from "~/.server/team";
+import { getInvitation, hasConfirmedEmail } from "~/.server/team";
 
 export const meta: Route.MetaFunction = () => [{ title: "Invitation · Sinewright" }];
 
@@ -17,12 +17,22 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     invitation: { email: invitation.email, role: invitation.role, teamName: invitation.teamName, usable, status: invitation.status },
     signedInAs: signedIn?.user.email ?? null,
+    confirmed: signedIn ? await hasConfirmedEmail(signedIn.user.id) : false,
   };
 }
+
+const UNCONFIRMED = "Confirm your e-mail address first: open the link in the message we sent you, then accept here.";
 
 export async function action({ request, params }: Route.ActionArgs) {
   const signedIn = await getSignedIn(request);
   if (!signedIn) throw redirect(`/sign-in?next=/invitations/${params.invitationId}`);
+  const intent = (await request.formData()).get("intent");
+  if (intent === "send-confirmation") {
+    await auth().api.sendVerificationEmail({ body: { email: signedIn.user.email, callbackURL: `/invitations/${params.invitationId}` } });
+    return { error: null, sentTo: signedIn.user.email };
+  }
+  // better-auth refuses too (requireEmailVerificationOnInvitation); this says what to do.
+  if (!(await hasConfirmedEmail(signedIn.user.id))) return data({ error: UNCONFIRMED, sentTo: null }, { status: 400 });
   try {
     const accepted = await auth().api.acceptInvitation({ headers: request.headers, body: { invitationId: params.invitationId } });
     const teamId = accepted?.member.organizationId;
@@ -31,19 +41,20 @@ export async function action({ request, params }: Route.ActionArgs) {
       await recordAudit({ teamId, actorId: signedIn.user.id, action: "member.joined", subjectType: "member", subjectId: signedIn.user.id, detail: { role: accepted.member.role } });
     }
   } catch {
-    return data({ error: "This invitation cannot be accepted: it may have expired, been withdrawn, or be meant for another e-mail address." }, { status: 400 });
+    return data({ error: "This invitation cannot be accepted: it may have expired, been withdrawn, or be meant for another e-mail address.", sentTo: null }, { status: 400 });
   }
   throw redirect("/sheets");
 }
 
 export default function Invitation() {
-  const { invitation, signedInAs } = useLoaderData<typeof loader>();
+  const { invitation, signedInAs, confirmed } = useLoaderData<typeof loader>();
   const result = useActionData<typeof action>();
   const next = encodeURIComponent(useLocation().pathname);
   const mismatch = signedInAs !== null && signedInAs.toLowerCase() !== invitation.email.toLowerCase();
   return (
     <AuthFrame title={`Join ${invitation.teamName}`} lead={`You are invited as ${invitation.role}, at ${invitation.email}.`}>
-      <FormError message={result?.error} />
+      <FormError message={result?.error ?? undefined} />
+      {result?.sentTo ? <Notice tone="success">{`We sent a new link to ${result.sentTo}. Open it to confirm the address; it brings you back here.`}</Notice> : null}
       {!invitation.usable ? (
         <p className="text-ink-soft">This invitation is no longer open ({invitation.status}). Ask the team's admin to send a new one.</p>
       ) : signedInAs === null ? (
@@ -62,6 +73,16 @@ export default function Invitation() {
         <p className="text-sm text-ink-soft">
           You are signed in as {signedInAs}, but the invitation is for {invitation.email}. Sign out and sign in with that address.
         </p>
+      ) : !confirmed ? (
+        <div className="space-y-3">
+          <p className="text-sm text-ink-soft">{UNCONFIRMED}</p>
+          <Form method="post">
+            <input type="hidden" name="intent" value="send-confirmation" />
+            <button type="submit" className="btn btn-quiet">
+              Send the link again
+            </button>
+          </Form>
+        </div>
       ) : (
         <Form method="post">
           <button type="submit" className="btn btn-primary">

@@ -5,7 +5,7 @@ import { EmptyState, PageHeader } from "~/components/empty-state";
 import { Notice, SelectField } from "~/components/form-fields";
 import { StatusBadge } from "~/components/status-badge";
 import { calculators } from "~/lib/calc/registry";
-import { blockQuery, searchQuery } from "~/lib/forms/search";
+import { blockQuery, SEARCH_QUERY_MAX_LENGTH, searchQuery } from "~/lib/forms/search";
 import { sheetNumberLabel } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
 import { listProjects } from "~/.server/projects";
@@ -22,8 +22,15 @@ type Hit = ReturnType<typeof hitView>;
 export async function loader({ request }: Route.LoaderArgs) {
   const me = await requireMember(request, "viewer");
   const params = Object.fromEntries(new URL(request.url).searchParams);
-  const query = searchQuery.parse(params);
-  const [result, projects, authors] = await Promise.all([runSearch(me, query), listProjects(me.team.teamId), sheetAuthors(me.team.teamId)]);
+  const parsedQuery = searchQuery.safeParse(params);
+  // An over-long query is not run: the page says what to change and keeps the words typed.
+  const query = parsedQuery.success ? parsedQuery.data : { ...searchQuery.parse({}), q: String(params.q ?? "") };
+  const queryError = parsedQuery.success ? null : (parsedQuery.error.issues[0]?.message ?? "Check the search words.");
+  const [result, projects, authors] = await Promise.all([
+    parsedQuery.success ? runSearch(me, query) : null,
+    listProjects(me.team.teamId),
+    sheetAuthors(me.team.teamId),
+  ]);
   let blocks: { hits: Awaited<ReturnType<typeof runBlockSearch>>; error: string | null } | null = null;
   if (params.mode === "blocks") {
     const parsed = blockQuery.safeParse(params);
@@ -44,6 +51,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     hits,
     total: result?.total ?? 0,
     notice: result?.notice ?? null,
+    queryError,
     projects: projects.map((p) => ({ id: p.id, label: `${p.code} — ${p.name}` })),
     authors,
     calculators: calculators.map((c) => ({ id: c.id, title: c.title, fields: [...c.inputs.filter((i) => i.kind === "quantity").map((i) => ({ key: i.key, label: `input ${i.key} — ${i.label}`, of: "inputs" })), ...c.outputs.filter((o) => o.kind === "scalar").map((o) => ({ key: o.key, label: `result ${o.key} — ${o.label}`, of: "results" }))] })),
@@ -84,8 +92,13 @@ export default function Search() {
     if (params.get("focus") === "1") box.current?.focus();
   }, [params]);
 
-  const liveData = live.data as { hits: Hit[]; total: number; notice: string | null } | undefined;
-  const showing = text !== data.query.q && liveData ? liveData : { hits: data.hits, total: data.total, notice: data.notice };
+  const liveData = live.data as { hits: Hit[]; total: number; notice: string | null } | { error: string } | undefined;
+  const showing =
+    text !== data.query.q && liveData
+      ? "error" in liveData
+        ? { hits: [], total: 0, notice: null, error: liveData.error }
+        : { ...liveData, error: null }
+      : { hits: data.hits, total: data.total, notice: data.notice, error: data.queryError };
   const fields = data.calculators.find((c) => c.id === calculator)?.fields ?? [];
 
   return (
@@ -106,7 +119,15 @@ export default function Search() {
             placeholder='e.g. fsw 20 kHz, quasi-square 48 V, "dc link" -draft'
             className="field-input"
             autoComplete="off"
+            maxLength={SEARCH_QUERY_MAX_LENGTH}
+            aria-invalid={showing.error ? true : undefined}
+            aria-describedby={showing.error ? "search-error" : undefined}
           />
+          {showing.error ? (
+            <p id="search-error" className="field-error">
+              {showing.error}
+            </p>
+          ) : null}
         </div>
         <div className="flex flex-wrap items-end gap-3">
           <label className="flex items-center gap-2 text-sm">
@@ -142,7 +163,7 @@ export default function Search() {
             Words from titles, prose and tags; project codes; calculator names such as <code>lc-filter</code>; and the values of inputs and
             results, typed as you would write them: <code>fsw 20 kHz</code>, <code>quasi-square 48 V</code>.
           </EmptyState>
-        ) : showing.hits.length === 0 ? (
+        ) : showing.error ? null : showing.hits.length === 0 ? (
           <EmptyState title="Nothing matches">Try fewer words, another spelling of a value, or clear the filters.</EmptyState>
         ) : (
           <>

@@ -11,6 +11,7 @@ import { sourceEditorForm } from "~/lib/forms/sheets";
 import type { SourceProblem } from "~/lib/mdx/types";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
 import { prepareSheet } from "~/lib/sheets/pipeline";
+import { prepareUntrustedSheet } from "~/.server/math-typesetter";
 import { requireMember } from "~/.server/access";
 import { attachmentLimitBytes, capturesForSheet, listAttachments } from "~/.server/attachments";
 import { discardDraft, getDraft, getRevisionById, getSheet, saveDraft, saveRevision, STARTER_SOURCE } from "~/.server/sheets";
@@ -34,10 +35,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     listAttachments(sheet.id),
     capturesForSheet(sheet.id),
   ]);
+  const source = draft?.source ?? latest?.source ?? STARTER_SOURCE;
   return {
     sheet: { label: sheet.label, title: sheet.title },
     base: latest ? { id: latest.id, label: latest.label } : null,
-    source: draft?.source ?? latest?.source ?? STARTER_SOURCE,
+    source,
+    // The first preview, typeset in the server's worker: a draft is untrusted text.
+    opening: await prepareUntrustedSheet(source, "sheet", captures),
     draft: draft ? { updatedAt: draft.updatedAt.toISOString(), staleBase: (draft.baseRevisionId ?? null) !== (latest?.id ?? null) } : null,
     draftBaseId: draft ? draft.baseRevisionId : null,
     palette: calculators.map((c) => ({ id: c.id, title: c.title, summary: c.summary })),
@@ -81,7 +85,10 @@ export default function SheetEditor() {
   const [writeBackError, setWriteBackError] = useState<string | null>(null);
   const view = useRef<EditorView | null>(null);
   const deferredSource = useDeferredValue(source);
-  const prepared = useMemo(() => prepareSheet(deferredSource, "sheet", loaded.captures), [deferredSource, loaded.captures]);
+  const prepared = useMemo(
+    () => (deferredSource === loaded.source ? loaded.opening : prepareSheet(deferredSource, "sheet", loaded.captures)),
+    [deferredSource, loaded.source, loaded.opening, loaded.captures],
+  );
 
   const onInputChange = useCallback(
     (blockId: string, key: string, value: string) => {

@@ -5,6 +5,7 @@ import { FormError, Notice, TextField } from "~/components/form-fields";
 import { fieldErrors, safeNext, signInForm, type FieldErrors } from "~/lib/forms/account";
 import { getSignedIn } from "~/.server/access";
 import { callAuthEndpoint } from "~/.server/auth";
+import { config } from "~/.server/config";
 import { actionRetryAfter, authErrorMessage, cookiesFrom, retryAfterHeaders } from "~/.server/auth-response";
 
 export const headers = actionRetryAfter;
@@ -12,7 +13,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Sign in · Sinewright" 
 
 export async function loader({ request }: Route.LoaderArgs) {
   const signedIn = await getSignedIn(request);
-  if (signedIn) throw redirect(safeNext(new URL(request.url).searchParams.get("next")));
+  if (signedIn) throw redirect(safeNext(new URL(request.url).searchParams.get("next"), config().APP_URL));
   return null;
 }
 
@@ -29,7 +30,7 @@ export async function action({ request }: Route.ActionArgs) {
     if (response.status === 429) return data({ errors: { form: message } as FieldErrors, email: parsed.data.email }, { status: 429, headers: retryAfterHeaders(response) });
     return data({ errors: { form: message } as FieldErrors, email: parsed.data.email }, { status: 400 });
   }
-  throw redirect(safeNext(form.next), { headers: cookiesFrom(response) });
+  throw redirect(safeNext(form.next, config().APP_URL), { headers: cookiesFrom(response) });
 }
 
 export default function SignIn() {

@@ -5,7 +5,8 @@ import { FormError, TextField } from "~/components/form-fields";
 import { fieldErrors, safeNext, signUpForm, type FieldErrors } from "~/lib/forms/account";
 import { getSignedIn } from "~/.server/access";
 import { callAuthEndpoint } from "~/.server/auth";
-import { actionRetryAfter, authErrorMessage, cookiesFrom, retryAfterHeaders } from "~/.server/auth-response";
+import { config } from "~/.server/config";
+import { actionRetryAfter, authErrorMessage, retryAfterHeaders } from "~/.server/auth-response";
 
 export const headers = actionRetryAfter;
 export const meta: Route.MetaFunction = () => [{ title: "Create an account · Sinewright" }];
@@ -20,24 +21,36 @@ export async function action({ request }: Route.ActionArgs) {
   const parsed = signUpForm.safeParse(form);
   const echo = { name: String(form.name ?? ""), email: String(form.email ?? "") };
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors, ...echo }, { status: 400 });
-  const response = await callAuthEndpoint(request, "/sign-up/email", parsed.data);
+  // The link in the confirmation mail signs the new account in and continues where it was going (an invitation, or a new team).
+  const callbackURL = safeNext(form.next, config().APP_URL, "/teams/new");
+  const response = await callAuthEndpoint(request, "/sign-up/email", { ...parsed.data, callbackURL });
   if (!response.ok) {
     const message = await authErrorMessage(response, "The account could not be created.");
     if (response.status === 429) return data({ errors: { form: message } as FieldErrors, ...echo }, { status: 429, headers: retryAfterHeaders(response) });
-    const taken = /exist/i.test(message);
-    return data(
-      { errors: (taken ? { email: "An account with this e-mail already exists. Sign in instead, or reset its password." } : { form: message }) as FieldErrors, ...echo },
-      { status: 400 },
-    );
+    return data({ errors: { form: message } as FieldErrors, ...echo }, { status: 400 });
   }
-  // A new account has no team yet: it either accepts an invitation (next) or starts a team.
-  throw redirect(safeNext(form.next, "/teams/new"), { headers: cookiesFrom(response) });
+  // The same answer whether or not the address already had an account (that owner is mailed a note instead).
+  return { sentTo: parsed.data.email };
 }
 
 export default function SignUp() {
   const result = useActionData<typeof action>();
   const [params] = useSearchParams();
   const busy = useNavigation().state !== "idle";
+  if (result && "sentTo" in result) {
+    return (
+      <AuthFrame title="Check your e-mail" lead={`We sent a message to ${result.sentTo}.`}>
+        <p className="text-ink-soft">
+          Open the link in it to confirm the address and sign in; it works for one day. No message after a few minutes? Look in the spam folder, or{" "}
+          <Link className="font-medium text-copper-deep underline" to="/sign-in">
+            sign in
+          </Link>{" "}
+          if you already have an account.
+        </p>
+      </AuthFrame>
+    );
+  }
+  const errors = result && "errors" in result ? result : undefined;
   return (
     <AuthFrame
       title="Create an account"
@@ -52,11 +65,11 @@ export default function SignUp() {
       }
     >
       <Form method="post" className="space-y-4" noValidate>
-        <FormError message={result?.errors.form} />
+        <FormError message={errors?.errors.form} />
         <input type="hidden" name="next" value={params.get("next") ?? ""} />
-        <TextField name="name" label="Name" autoComplete="name" defaultValue={result?.name} error={result?.errors.name} required />
-        <TextField name="email" type="email" label="E-mail" autoComplete="email" defaultValue={result?.email} error={result?.errors.email} required />
-        <TextField name="password" type="password" label="Password" autoComplete="new-password" hint="At least 10 characters." error={result?.errors.password} required />
+        <TextField name="name" label="Name" autoComplete="name" defaultValue={errors?.name} error={errors?.errors.name} required />
+        <TextField name="email" type="email" label="E-mail" autoComplete="email" defaultValue={errors?.email} error={errors?.errors.email} required />
+        <TextField name="password" type="password" label="Password" autoComplete="new-password" hint="At least 10 characters." error={errors?.errors.password} required />
         <div className="flex justify-end pt-2">
           <button type="submit" className="btn btn-primary" disabled={busy}>
             {busy ? "Creating…" : "Create account"}

@@ -1,8 +1,12 @@
 import fc from "fast-check";
+import type { z } from "zod";
 import { beforeAll, describe, expect, it } from "vitest";
 import { ACCESS_MATRIX, entryUrl } from "../support/access-matrix";
 import { createApiKey, Visitor } from "../support/http";
 import { appRoutes } from "../support/route-config";
+import { arraysPastLimits, valuesPastLimits } from "../support/schema-limits";
+import { evaluateBody } from "~/lib/forms/api";
+import { blockQuery, searchQuery } from "~/lib/forms/search";
 
 /**
  * Random JSON bodies, query strings and path values against every API route in
@@ -28,6 +32,26 @@ const jsonBody = fc.oneof(
   fc.record({ inputs: fc.dictionary(fc.constantFrom("vdc", "alpha", "l", "c", "fsw", "vout", "m"), leaf) }, { requiredKeys: [] }),
   fc.record({ blocks: fc.array(fc.record({ id: fc.oneof(fc.string({ maxLength: 6 }), leaf), calculator: fc.oneof(fc.constantFrom("quasi-square", "lc-filter", "spwm", "nope"), leaf), inputs: fc.dictionary(fc.string({ maxLength: 6 }), leaf) }, { requiredKeys: [] }), { maxLength: 4 }) }, { requiredKeys: [] }),
 );
+
+/** The schemas each route reads, whose limits the fuzzing goes past (a value over a limit once answered 500). */
+const ROUTE_SCHEMAS: Record<string, { query?: z.ZodObject; body?: z.ZodObject }> = {
+  "routes/api.v1.search": { query: searchQuery },
+  "routes/api.v1.blocks": { query: blockQuery },
+  "routes/api.v1.evaluate": { body: evaluateBody },
+};
+
+/** A valid query (the access matrix's) with one to three fields replaced by values past their limits. */
+function queryPastLimits(baseQuery: string, schema: z.ZodObject) {
+  const past = valuesPastLimits(schema);
+  return fc
+    .uniqueArray(fc.constantFrom(...Object.keys(past)), { minLength: 1, maxLength: 3 })
+    .chain((keys) => fc.tuple(...keys.map((key) => past[key]!.map((value) => [key, value] as const))))
+    .map((pairs) => {
+      const params = new URLSearchParams(baseQuery);
+      for (const [key, value] of pairs) params.set(key, value);
+      return { params: params.toString(), keys: pairs.map(([key]) => key) };
+    });
+}
 
 function withPathValues(pattern: string, values: string[]): string {
   let i = 0;
@@ -56,9 +80,55 @@ describe("API fuzzing", () => {
     expect(apiRoutes.map((r) => r.id)).toEqual(expect.arrayContaining(["routes/api.v1.evaluate", "routes/api.v1.search", "api-not-found"]));
   });
 
+  it("knows the schema of every API route that reads a query or a JSON body", () => {
+    for (const id of Object.keys(ROUTE_SCHEMAS)) expect(apiRoutes.map((r) => r.id)).toContain(id);
+    for (const schemas of Object.values(ROUTE_SCHEMAS)) {
+      const limited = { ...(schemas.query ? valuesPastLimits(schemas.query) : {}), ...(schemas.body ? arraysPastLimits(schemas.body) : {}) };
+      expect(Object.keys(limited).length).toBeGreaterThan(0);
+    }
+  });
+
   for (const route of apiRoutes) {
     const url = entryUrl(ACCESS_MATRIX[route.id]!, { invitationId: "none", attachmentId: "none" });
     const path = url.split("?")[0]!;
+    const schemas = ROUTE_SCHEMAS[route.id];
+
+    if (schemas?.query) {
+      const schema = schemas.query;
+      it(`${route.id}: query values past each limit of its schema get 400 naming the field`, async () => {
+        await fc.assert(
+          fc.asyncProperty(fc.constantFrom(...callers), queryPastLimits(url.split("?")[1] ?? "", schema), async (caller, { params, keys }) => {
+            const response = await caller.visitor.get(`${path}?${params}`, caller.headers);
+            const what = `${caller.name} GET ${path}?${params}`;
+            await expectClearAnswer(response.clone(), what);
+            // Only limits that refuse (not those that fall back) must answer 400.
+            const refused = keys.filter((key) => !schema.shape[key]!.safeParse(new URLSearchParams(params).get(key)!).success);
+            if (refused.length > 0) {
+              expect(response.status, what).toBe(400);
+              const body = await response.json();
+              expect(body.fieldErrors?.map((f: { field: string }) => f.field), what).toEqual(expect.arrayContaining([expect.stringMatching(new RegExp(`^(${refused.join("|")})$`))]));
+            }
+          }),
+          { numRuns: RUNS },
+        );
+      });
+    }
+
+    if (schemas?.body) {
+      const past = arraysPastLimits(schemas.body);
+      it(`${route.id}: JSON lists past the schema's limits get 400`, async () => {
+        for (const [key, values] of Object.entries(past)) {
+          await fc.assert(
+            fc.asyncProperty(fc.constantFrom(...callers), values, async (caller, list) => {
+              const response = await caller.visitor.postJson(path, { [key]: list }, caller.headers);
+              expect(response.status).toBe(400);
+              await expectClearAnswer(response, `${caller.name} POST ${path} with ${list.length} ${key}`);
+            }),
+            { numRuns: 4 },
+          );
+        }
+      });
+    }
 
     it(`${route.id}: random JSON bodies`, async () => {
       await fc.assert(

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { firstLink, waitForMail } from "../support/mail";
-import { BASE_URL, signUp, uniqueEmail, Visitor } from "../support/http";
+import { BASE_URL, confirmEmail, pageText, signUp, uniqueEmail, Visitor } from "../support/http";
 
 describe("accounts: sign-up, sign-in, sign-out, password reset", () => {
   it("signs up a new engineer, who lands on 'start a team' with a session", async () => {
@@ -10,11 +10,35 @@ describe("accounts: sign-up, sign-in, sign-out, password reset", () => {
     expect(await page.text()).toContain("You are not in a team yet");
   });
 
-  it("refuses a second account on the same e-mail with a message saying what to do", async () => {
+  it("answers sign-up the same for a taken address, signs nobody in, and mails the owner instead", async () => {
     const { email } = await signUp("twice");
-    const again = await new Visitor().postForm("/sign-up", { name: "Again", email, password: "another-long-password", next: "" });
-    expect(again.status).toBe(400);
-    expect(await again.text()).toContain("already exists");
+    const fresh = uniqueEmail("fresh");
+    const answers = [];
+    for (const address of [email, fresh]) {
+      const response = await new Visitor().postForm("/sign-up", { name: "Again", email: address, password: "another-long-password", next: "" });
+      answers.push({ status: response.status, cookies: response.headers.getSetCookie(), page: (await pageText(response)).replaceAll(address, "ADDRESS").replace(/nonce="[^"]*"/g, 'nonce=""') });
+    }
+    expect(answers[0]).toEqual(answers[1]);
+    expect(answers[0]!.status).toBe(200);
+    expect(answers[0]!.cookies).toEqual([]);
+    expect(answers[0]!.page).toContain("We sent a message to ADDRESS");
+    expect(answers[0]!.page).not.toMatch(/already exists|already has/i);
+    // The owner learns of the attempt; the new address gets its confirmation link.
+    const note = await waitForMail(email, /tried to create a Sinewright account/);
+    expect(note.text).toContain("/forgot-password");
+    const confirm = await waitForMail(fresh, /Confirm your e-mail address/);
+    expect(firstLink(confirm.text)).toContain("/api/auth/verify-email?token=");
+    // The second password did not replace the first.
+    expect((await new Visitor().postForm("/sign-in", { email, password: "another-long-password", next: "" })).status).toBe(400);
+  });
+
+  it("signs a new account in from its confirmation link, and continues to where it was going", async () => {
+    const email = uniqueEmail("confirming");
+    const visitor = new Visitor();
+    await visitor.postForm("/sign-up", { name: "Confirming", email, password: "correct-horse-battery", next: "/teams/new" });
+    expect((await visitor.get("/teams/new")).status).toBe(302);
+    expect(await confirmEmail(visitor, email)).toBe("/teams/new");
+    expect((await visitor.get("/teams/new")).status).toBe(200);
   });
 
   it("explains bad sign-up input field by field, and creates nothing", async () => {
@@ -102,6 +126,18 @@ describe("accounts: sign-up, sign-in, sign-out, password reset", () => {
     const response = await new Visitor().postForm("/sign-in", { email: "viewer@example.com", password: "sinewright-demo", next: "//evil.example/x" });
     expect(response.status).toBe(302);
     expect(response.headers.get("location")).toBe("/sheets");
+  });
+
+  it("sends a signed-in visitor only to same-origin paths written plainly (tab, newline, slashes, backslashes refused)", async () => {
+    const visitor = await new Visitor().signIn("viewer@example.com");
+    for (const next of ["/%09/evil.example", "/%0A/evil.example", "//evil.example", "/%5Cevil.example", "%5C/evil.example", "/%252F%252Fevil.example", "javascript:alert(1)", "https://evil.example"]) {
+      const response = await visitor.get(`/sign-in?next=${next}`);
+      expect(response.status, next).toBe(302);
+      expect(response.headers.get("location"), next).toBe("/sheets");
+    }
+    // As the sign-in redirect writes it: the path and its (already encoded) query, encoded once more.
+    const fine = await visitor.get(`/sign-in?next=${encodeURIComponent("/search?q=dead%20time")}`);
+    expect(fine.headers.get("location")).toBe("/search?q=dead%20time");
   });
 
   it("answers /healthz with the database reachable", async () => {

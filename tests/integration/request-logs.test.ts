@@ -83,8 +83,15 @@ describe("request logs", () => {
     const link = await lineFor(await fetch(`${server.url}/api/auth/reset-password/tok-Path-Secret-456?callbackURL=%2Freset-password`, { redirect: "manual" }));
     expect(link.req.url).toBe("/api/auth/reset-password/[redacted]?callbackURL=%2Freset-password");
 
+    const invitation = await lineFor(await fetch(`${server.url}/invitations/inv-Path-Secret-789`));
+    expect(invitation.req.url).toBe("/invitations/[redacted]");
+    const signIn = await lineFor(await fetch(`${server.url}/sign-in?next=%2Finvitations%2Finv-Next-Secret-012`));
+    expect(signIn.req.url).toBe("/sign-in?next=%2Finvitations%2F[redacted]");
+    const lookup = await lineFor(await fetch(`${server.url}/api/auth/organization/get-invitation?id=inv-Query-Secret-345`));
+    expect(lookup.req.url).toBe("/api/auth/organization/get-invitation?id=[redacted]");
+
     const output = server.output();
-    for (const leaked of [key, "tok-Query-Secret-123", "tok-Path-Secret-456", secret, "pw-Smtp-Relay-5", smtpUrl, process.env.DATABASE_URL!]) {
+    for (const leaked of [key, "tok-Query-Secret-123", "tok-Path-Secret-456", "inv-Path-Secret-789", "inv-Next-Secret-012", "inv-Query-Secret-345", secret, "pw-Smtp-Relay-5", smtpUrl, process.env.DATABASE_URL!]) {
       expect(output).not.toContain(leaked);
     }
   });

@@ -48,4 +48,20 @@ describe("search API and page", () => {
     expect(bad.status).toBe(400);
     expect((await bad.json()).error).toMatch(/frequency/);
   });
+
+  it("answers a search past 200 characters with a clear message on the page and the API, never a 500", async () => {
+    const viewer = await new Visitor().signIn("viewer@example.com");
+    const long = "inverter ".repeat(23).slice(0, 201);
+    const api = await viewer.get(`/api/v1/search?q=${encodeURIComponent(long)}`);
+    expect(api.status).toBe(400);
+    expect(await api.json()).toMatchObject({ error: "Keep the search to 200 characters or fewer.", fieldErrors: [{ field: "q" }] });
+    const page = await viewer.get(`/search?q=${encodeURIComponent(long)}`);
+    expect(page.status).toBe(200);
+    const html = await page.text();
+    expect(html).toContain("Keep the search to 200 characters or fewer.");
+    expect(html).toContain('aria-invalid="true"');
+    const blocks = await viewer.get(`/api/v1/blocks?calculator=lc-filter&field=${"f".repeat(41)}`);
+    expect(blocks.status).toBe(400);
+    expect((await blocks.json()).fieldErrors).toContainEqual({ field: "field", message: "No input or result has a name that long." });
+  });
 });

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { firstLink, waitForMail } from "../support/mail";
-import { signUp, signUpWithTeam, uniqueEmail, Visitor } from "../support/http";
+import { confirmEmail, signUp, signUpWithTeam, teamWithRoles, uniqueEmail, Visitor } from "../support/http";
+import { serverQuery } from "../support/server-db";
 
 async function memberIdOf(visitor: Visitor, email: string): Promise<string> {
   const html = await (await visitor.get("/team")).text();
@@ -29,8 +30,10 @@ describe("team roles and the admin page", () => {
     expect(landing.status).toBe(200);
     expect(await landing.text()).toContain("Create an account");
     const created = await newcomer.postForm("/sign-up", { name: "New Checker", email, password: "a-long-enough-password", next: path });
-    expect(created.status).toBe(302);
-    expect(created.headers.get("location")).toBe(path);
+    expect(created.status).toBe(200);
+    expect(await created.text()).toContain(`We sent a message to ${email}`);
+    // The confirmation link signs the newcomer in and brings them back to the invitation.
+    expect(await confirmEmail(newcomer, email)).toBe(path);
     const accept = await newcomer.postForm(path, {});
     expect(accept.status).toBe(302);
 
@@ -84,7 +87,8 @@ describe("team roles and the admin page", () => {
     const path = new URL(firstLink((await waitForMail(colleague, /invited you/)).text)).pathname;
     const joiner = new Visitor();
     await joiner.postForm("/sign-up", { name: "Col League", email: colleague, password: "a-long-enough-password", next: path });
-    await joiner.postForm(path, {});
+    await confirmEmail(joiner, colleague);
+    expect((await joiner.postForm(path, {})).status).toBe(302);
 
     const memberId = await memberIdOf(admin.visitor, colleague);
     const promote = await admin.visitor.postForm("/team", { intent: "change-role", memberId, role: "checker" });
@@ -138,6 +142,74 @@ describe("team roles and the admin page", () => {
     const post = await new Visitor().postForm("/team", { intent: "remove", memberId: "x" });
     expect(post.status).toBe(302);
     expect(post.headers.get("location")).toBe("/sign-in?next=%2Fteam");
+  });
+  it("lets only a confirmed address accept its invitation", async () => {
+    const admin = await signUpWithTeam("confirm-first");
+    const { visitor: invitee, email } = await signUp("unconfirmed");
+    await admin.visitor.postForm("/team", { intent: "invite", email, role: "engineer" });
+    const path = new URL(firstLink((await waitForMail(email, /invited you/)).text)).pathname;
+    const page = await invitee.get(path);
+    expect(await page.text()).toContain("Confirm your e-mail address first");
+    const refused = await invitee.postForm(path, {});
+    expect(refused.status).toBe(400);
+    expect(await refused.text()).toContain("Confirm your e-mail address first");
+    expect((await invitee.get("/sheets")).headers.get("location")).toBe("/teams/new");
+
+    await confirmEmail(invitee, email);
+    expect((await invitee.postForm(path, {})).status).toBe(302);
+    expect(await (await invitee.get("/team")).text()).toContain("Team confirm-first");
+  });
+});
+
+describe("better-auth's own team endpoints", () => {
+  async function membersOf(teamId: string) {
+    return serverQuery<{ user_id: string; role: string }>(`select user_id, role from member where organization_id = $1 order by user_id`, [teamId]);
+  }
+  async function auditCount(teamId: string) {
+    const [row] = await serverQuery<{ n: string }>(`select count(*) as n from audit_event where team_id = $1`, [teamId]);
+    return Number(row!.n);
+  }
+
+  it("refuse team changes made straight over HTTP, which would skip the team's activity record", async () => {
+    const { teamId, people } = await teamWithRoles("direct", ["engineer", "viewer"]);
+    const admin = people.admin!.visitor;
+    const [viewerMember] = await serverQuery<{ id: string }>(`select id from member where organization_id = $1 and user_id = $2`, [teamId, people.viewer!.userId]);
+    const before = { members: await membersOf(teamId), audit: await auditCount(teamId) };
+    const invitee = uniqueEmail("direct-invitee");
+    const attempts: [string, Visitor, Record<string, unknown>][] = [
+      ["/api/auth/organization/remove-member", admin, { memberIdOrEmail: viewerMember!.id, organizationId: teamId }],
+      ["/api/auth/organization/update-member-role", admin, { memberId: viewerMember!.id, role: "admin", organizationId: teamId }],
+      ["/api/auth/organization/invite-member", admin, { email: invitee, role: "admin", organizationId: teamId }],
+      ["/api/auth/organization/leave", people.engineer!.visitor, { organizationId: teamId }],
+      ["/api/auth/organization/update", admin, { organizationId: teamId, data: { name: "Renamed behind the audit trail" } }],
+      ["/api/auth/organization/delete", admin, { organizationId: teamId }],
+      ["/api/auth/organization/create", admin, { name: "Unrecorded team", slug: `unrecorded-${Date.now()}` }],
+    ];
+    for (const [path, caller, body] of attempts) {
+      const response = await caller.postJson(path, body);
+      expect(response.status, path).toBe(403);
+      expect((await response.json()).message, path).toContain("Team page");
+    }
+    expect(await membersOf(teamId)).toEqual(before.members);
+    expect(await auditCount(teamId)).toBe(before.audit);
+    expect(await serverQuery(`select 1 from invitation where email = $1`, [invitee])).toEqual([]);
+    expect(await serverQuery(`select 1 from organization where name in ('Renamed behind the audit trail', 'Unrecorded team')`)).toEqual([]);
+    // Reading stays open: endpoints that change nothing still answer.
+    expect((await admin.get(`/api/auth/organization/list-members?organizationId=${teamId}`)).status).toBe(200);
+  });
+
+  it("refuse accepting an invitation straight over HTTP; the invitation page accepts it and records the join", async () => {
+    const admin = await signUpWithTeam("direct-accept");
+    const { visitor: invitee, email } = await signUp("direct-accepter");
+    await confirmEmail(invitee, email);
+    await admin.visitor.postForm("/team", { intent: "invite", email, role: "viewer" });
+    const path = new URL(firstLink((await waitForMail(email, /invited you/)).text)).pathname;
+    const invitationId = path.split("/")[2]!;
+    const direct = await invitee.postJson("/api/auth/organization/accept-invitation", { invitationId });
+    expect(direct.status).toBe(403);
+    expect((await invitee.get("/sheets")).headers.get("location")).toBe("/teams/new");
+    expect((await invitee.postForm(path, {})).status).toBe(302);
+    expect(await (await admin.visitor.get("/team")).text()).toContain("joined the team as viewer");
   });
 });
 

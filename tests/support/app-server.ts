@@ -86,7 +86,14 @@ export async function signUpThroughApi(url: string, email: string, password: str
     body: JSON.stringify({ email, password, name: "Test Person" }),
   });
   if (!response.ok) throw new Error(`sign-up answered ${response.status}: ${await response.text()}`);
-  return response.headers
+  // Sign-up signs nobody in (it answers the same for a taken address); the password does.
+  const signIn = await fetch(`${url}/api/auth/sign-in/email`, {
+    method: "POST",
+    headers: { "content-type": "application/json", origin: url },
+    body: JSON.stringify({ email, password }),
+  });
+  if (!signIn.ok) throw new Error(`sign-in answered ${signIn.status}: ${await signIn.text()}`);
+  return signIn.headers
     .getSetCookie()
     .map((line) => line.split(";")[0])
     .join("; ");

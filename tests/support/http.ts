@@ -63,13 +63,28 @@ export function uniqueEmail(label: string): string {
   return `${label}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 7)}@example.org`;
 }
 
-/** Creates an account through the sign-up form and returns the signed-in visitor. */
+/**
+ * Creates an account through the sign-up form (which answers "check your e-mail" and
+ * signs nobody in) and signs it in with its password; its address stays unconfirmed
+ * until `confirmEmail`.
+ */
 export async function signUp(label: string, password = "correct-horse-battery", baseUrl = BASE_URL) {
   const email = uniqueEmail(label);
   const visitor = new Visitor(baseUrl);
   const response = await visitor.postForm("/sign-up", { name: `Test ${label}`, email, password, next: "" });
-  if (response.status !== 302) throw new Error(`sign-up answered ${response.status}`);
+  if (response.status !== 200) throw new Error(`sign-up answered ${response.status}`);
+  const signedIn = await visitor.postForm("/sign-in", { email, password, next: "" });
+  if (signedIn.status !== 302) throw new Error(`signing in the new account answered ${signedIn.status}`);
   return { visitor, email, password };
+}
+
+/** Follows the link of the confirmation mail sent at sign-up (which signs the visitor in); answers where it leads. */
+export async function confirmEmail(visitor: Visitor, email: string): Promise<string | null> {
+  const { firstLink, waitForMail } = await import("./mail");
+  const link = firstLink((await waitForMail(email, /Confirm your e-mail address/)).text);
+  const response = await visitor.get(link);
+  if (response.status !== 302) throw new Error(`the confirmation link answered ${response.status}`);
+  return response.headers.get("location");
 }
 
 /** Signs up and starts a team; the visitor is its admin. */

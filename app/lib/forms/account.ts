@@ -37,7 +37,27 @@ export function fieldErrors(error: z.ZodError): FieldErrors {
   return out;
 }
 
-/** Only same-site paths are followed after sign-in; anything else goes home. */
-export function safeNext(next: unknown, fallback = "/sheets"): string {
-  return typeof next === "string" && next.startsWith("/") && !next.startsWith("//") && !next.startsWith("/\\") ? next : fallback;
+/** Control characters, whitespace and backslashes: browsers drop or reinterpret them, which turns "/\t/evil" into "//evil". */
+const UNSAFE_IN_TARGET = /[\u0000-\u0020\u007f-\u009f\u00a0\u1680\u2000-\u200f\u2028\u2029\u202f\u205f\u3000\ufeff\\]/u;
+
+/**
+ * The one rule for a redirect target read from a request (`next`): only a path on the
+ * app's own origin, written plainly. It is resolved against the app's address and
+ * refused — answering `fallback` — when it leaves that origin, starts with `//`, or
+ * holds control characters, whitespace or backslashes anywhere (in its path also
+ * percent-encoded; an encoded space in a query is fine).
+ */
+export function safeNext(next: unknown, appUrl: string, fallback = "/sheets"): string {
+  if (typeof next !== "string" || !next.startsWith("/") || next.length > 2_000) return fallback;
+  let decodedPath: string;
+  try {
+    decodedPath = decodeURIComponent(next.split(/[?#]/, 1)[0]!);
+  } catch {
+    return fallback;
+  }
+  if ([next, decodedPath].some((form) => UNSAFE_IN_TARGET.test(form) || form.startsWith("//"))) return fallback;
+  const origin = new URL(appUrl).origin;
+  const target = new URL(next, origin);
+  if (target.origin !== origin) return fallback;
+  return target.pathname + target.search + target.hash;
 }

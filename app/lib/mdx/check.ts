@@ -25,7 +25,8 @@ import {
 } from "./components";
 import { MEASUREMENT_ATTRIBUTE_NAMES, MEASUREMENT_COMPONENT } from "../waveform/measurement";
 import { checkSourceLength, prescanSource } from "./prescan";
-import { renderTree } from "./render";
+import { mathProblem } from "./math";
+import { renderTree, type Typesetter } from "./render";
 import {
   SOURCE_LIMITS,
   type AttributeSpan,
@@ -50,8 +51,11 @@ const parser = createProcessor({ format: "mdx", remarkPlugins: [remarkMath, rema
 const BRACE_ADVICE = "Curly braces run code in MDX, which sheets do not allow. Write \\{ for a literal brace, or put a formula in $…$.";
 const ESM_ADVICE = "import and export run code, which sheets do not allow. Remove this line: the calculators are available without importing them.";
 
-/** Check an author's source and, when it is sound, list its blocks and build its render tree. */
-export function checkSheetSource(source: string, kind: SourceKind = "sheet"): CheckedSource {
+/**
+ * Check an author's source and, when it is sound, list its blocks and build its render tree.
+ * `typeset: null` leaves the tree's formulas as TeX (the server typesets them in a worker).
+ */
+export function checkSheetSource(source: string, kind: SourceKind = "sheet", typeset?: Typesetter | null): CheckedSource {
   const tooLong = checkSourceLength(source, kind);
   if (tooLong) return { ok: false, problems: [tooLong] };
   const unsafeShape = prescanSource(source);
@@ -70,7 +74,7 @@ export function checkSheetSource(source: string, kind: SourceKind = "sheet"): Ch
     const problems = walk.problems.sort((a, b) => a.line - b.line || a.column - b.column).slice(0, MAX_PROBLEMS);
     return { ok: false, problems };
   }
-  return { ok: true, blocks: walk.blocks, citations: walk.citations, measurements: walk.measurements, tree: renderTree(root) };
+  return { ok: true, blocks: walk.blocks, citations: walk.citations, measurements: walk.measurements, tree: renderTree(root, typeset) };
 }
 
 class SourceWalk {
@@ -150,6 +154,8 @@ class SourceWalk {
   }
 
   private countMath(node: MdastNodes, tex: string): void {
+    const refused = mathProblem(tex);
+    if (refused) this.problems.push({ message: refused.message, ...this.placeInMath(node, tex, refused.index) });
     const before = this.mathLength;
     this.mathLength += tex.length;
     if (before <= SOURCE_LIMITS.maxMathLength && this.mathLength > SOURCE_LIMITS.maxMathLength) {
@@ -401,6 +407,18 @@ class SourceWalk {
     const quote = this.source.charAt(end - 1);
     const valueStart = this.source.indexOf(quote, start + (attribute.type === "mdxJsxAttribute" ? attribute.name.length : 0)) + 1;
     return { start, end, valueStart, valueEnd: end - 1 };
+  }
+
+  /** Where a command inside a formula is: its same occurrence in the source after the formula's start. */
+  private placeInMath(node: MdastNodes, tex: string, index: number): { line: number; column: number } {
+    const command = /^\\(?:[A-Za-z@]+|.)/.exec(tex.slice(index))?.[0] ?? "";
+    const earlier = tex.slice(0, index).split(command).length - 1;
+    let at = this.offset(node.position?.start.offset) - 1;
+    for (let seen = 0; seen <= earlier && (at = this.source.indexOf(command, at + 1)) >= 0; seen++);
+    if (at < 0) return this.place(node);
+    const before = this.source.slice(0, at);
+    const line = before.split("\n").length;
+    return { line, column: at - before.lastIndexOf("\n") };
   }
 
   private offset(parserOffset: number | undefined): number {

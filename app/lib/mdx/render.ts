@@ -5,9 +5,11 @@
  *   component name and whose properties are the author's attributes, as strings;
  *   the React side maps those tag names to its components.
  * - The few allowed HTML elements become ordinary elements.
- * - Math is typeset by KaTeX here (`trust: false`: no links, classes or styles
- *   from TeX), so the page needs only KaTeX's stylesheet; a formula KaTeX cannot
- *   read shows its source in red instead of failing the sheet.
+ * - Math is typeset by KaTeX here (`math.ts`: `trust: false`, so no links,
+ *   classes or styles from TeX), so the page needs only KaTeX's stylesheet; a
+ *   formula KaTeX cannot read shows its source in red instead of failing the
+ *   sheet. The server typesets in a worker with a deadline instead: it asks for
+ *   the tree untypeset, then fills the formulas in (`mathIn`).
  * - Headings get ids from their text so sections can be linked; links that leave
  *   the app get rel="noopener noreferrer".
  * - Positions and other parser data are dropped: the tree is JSON.
@@ -17,10 +19,11 @@
  */
 import type { Element, ElementContent, Properties, Root as HastRoot } from "hast";
 import type { Heading, Nodes as MdastNodes, Root as MdastRoot } from "mdast";
-import rehypeKatex from "rehype-katex";
+import { fromHtmlIsomorphic } from "hast-util-from-html-isomorphic";
 import remarkRehype, { defaultHandlers, type Options as ToHastOptions } from "remark-rehype";
 import { unified } from "unified";
 import { VFile } from "vfile";
+import { typesetFormula } from "./math";
 import { isExternalUrl } from "./urls";
 
 type Handlers = NonNullable<ToHastOptions["handlers"]>;
@@ -29,22 +32,63 @@ type JsxElement = Extract<MdastNodes, { type: "mdxJsxFlowElement" | "mdxJsxTextE
 
 const EXTERNAL_LINK_REL = ["noopener", "noreferrer"];
 
-const KATEX_OPTIONS = {
-  trust: false,
-  strict: "ignore",
-  output: "htmlAndMathml",
-  // Keeps \rule and sizes from covering the page (em).
-  maxSize: 20,
-  // Bounds macro expansion (\def chains) so a formula cannot blow up.
-  maxExpand: 1000,
-} as const;
+/** A formula's TeX and whether it stands on its own (display) → KaTeX's HTML. */
+export type Typesetter = (tex: string, displayMode: boolean) => string;
 
-export function renderTree(root: MdastRoot): HastRoot {
-  const processor = unified()
-    .use(remarkRehype, { handlers: handlersForOneTree(), allowDangerousHtml: false })
-    .use(rehypeKatex, KATEX_OPTIONS);
-  const tree = processor.runSync(root, new VFile()) as HastRoot;
-  return toPlainData(tree);
+/** The render tree; with `typeset: null` its formulas stay as TeX, to be typeset later with `mathIn`. */
+export function renderTree(root: MdastRoot, typeset: Typesetter | null = typesetFormula): HastRoot {
+  const processor = unified().use(remarkRehype, { handlers: handlersForOneTree(), allowDangerousHtml: false });
+  const tree = toPlainData(processor.runSync(root, new VFile()) as HastRoot);
+  if (typeset) for (const formula of mathIn(tree)) formula.typeset(typeset(formula.tex, formula.displayMode));
+  return tree;
+}
+
+/** One formula of a tree: its TeX, and how to put its typeset HTML in its place. */
+export interface TreeFormula {
+  tex: string;
+  displayMode: boolean;
+  typeset(html: string): void;
+}
+
+/**
+ * The formulas of a tree in document order, as remark-math leaves them: inline
+ * (`math-inline`), display (`math-display`), and fenced ```math blocks (`<pre><code
+ * class="language-math">`, shown as display).
+ */
+export function mathIn(tree: HastRoot): TreeFormula[] {
+  type Parent = HastRoot | Element;
+  const formulas: TreeFormula[] = [];
+  const stack: { node: Parent | ElementContent; parent?: Parent; grandparent?: Parent }[] = [{ node: tree }];
+  while (stack.length > 0) {
+    const { node, parent, grandparent } = stack.pop()!;
+    if (node.type === "element" && parent) {
+      const classes = Array.isArray(node.properties.className) ? node.properties.className : [];
+      const fenced = classes.includes("language-math") && node.tagName === "code" && parent.type === "element" && parent.tagName === "pre";
+      if (fenced || classes.includes("math-inline") || classes.includes("math-display")) {
+        // A fenced block replaces its whole <pre>.
+        const [replaced, holder] = fenced ? [parent as Element, grandparent] : [node, parent];
+        formulas.push({
+          tex: textContent(node),
+          displayMode: fenced || classes.includes("math-display"),
+          typeset(html) {
+            if (!holder) return;
+            const content = toPlainData(fromHtmlIsomorphic(html, { fragment: true })).children as ElementContent[];
+            holder.children.splice(holder.children.indexOf(replaced), 1, ...content);
+          },
+        });
+        continue;
+      }
+    }
+    if ("children" in node) {
+      for (let i = node.children.length - 1; i >= 0; i--) stack.push({ node: node.children[i] as ElementContent, parent: node as Parent, grandparent: parent });
+    }
+  }
+  return formulas;
+}
+
+function textContent(node: ElementContent): string {
+  if (node.type === "text") return node.value;
+  return "children" in node ? node.children.map((child) => textContent(child as ElementContent)).join("") : "";
 }
 
 /** Handlers hold the heading ids already given, so each tree gets its own. */

@@ -6,6 +6,7 @@
 import type { Root as HastRoot } from "hast";
 import { evaluateSheet, type SheetEvaluation } from "../calc/evaluate-sheet";
 import { checkSheetSource } from "../mdx";
+import type { Typesetter } from "../mdx/render";
 import type { SourceBlock, SourceCitation, SourceKind, SourceMeasurement, SourceProblem } from "../mdx/types";
 import { evaluateMeasurements, type MeasurementOutcome, type StoredCapture } from "../waveform/measurement";
 import { revisionHash, type HashedBlock } from "./integrity";
@@ -26,10 +27,15 @@ export type PrepareOutcome = PreparedSheet | { ok: false; problems: SourceProble
 /**
  * `captures` are the sheet's analysed CSV attachments by file name: the server loads
  * them, the editor has them from its loader. Without them a measured block says which
- * file it misses.
+ * file it misses. `typeset: null` leaves the formulas as TeX (see `prepareUntrustedSheet` on the server).
  */
-export function prepareSheet(source: string, kind: SourceKind = "sheet", captures: Readonly<Record<string, StoredCapture>> = {}): PrepareOutcome {
-  const checked = checkSheetSource(source, kind);
+export function prepareSheet(
+  source: string,
+  kind: SourceKind = "sheet",
+  captures: Readonly<Record<string, StoredCapture>> = {},
+  typeset?: Typesetter | null,
+): PrepareOutcome {
+  const checked = checkSheetSource(source, kind, typeset);
   if (!checked.ok) return checked;
   const evaluation = evaluateSheet(checked.blocks.map((b) => ({ id: b.id, calculator: b.calculator, inputs: b.inputs })));
   const measurements = evaluateMeasurements(checked.measurements, evaluation, captures);

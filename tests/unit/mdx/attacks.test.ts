@@ -114,7 +114,7 @@ describe("what reaches the render tree", () => {
     "",
     'An <a href="https://example.com" title="ok">outside link</a>, <abbr title="pulse-width modulation">PWM</abbr>, [inside](/sheets/CS-0001).',
     "",
-    "TeX cannot link or style: $\\href{javascript:alert(1)}{x}$, $\\htmlStyle{color:red}{y}$, $\\url{javascript:alert(2)}$, $\\rule{9999em}{9999em}$.",
+    "TeX cannot link or style: $\\href{javascript:alert(1)}{x}$, $\\htmlStyle{color:red}{y}$, $\\url{javascript:alert(2)}$, $\\rule{10em}{10em}$.",
     "",
     "<Caution>",
     "  Unicode and entities stay text: &lt;script&gt; &#x3C;iframe&#x3E; <kbd>{'{'}</kbd>",
@@ -140,13 +140,84 @@ describe("what reaches the render tree", () => {
       }
     }
     expect(elements.filter((e) => e.tagName === "a").map((e) => e.properties.href)).toEqual(["https://example.com", "/sheets/CS-0001"]);
-    // KaTeX kept the rule within its size cap: it cannot cover the page.
+    // The largest rule a formula may draw is typeset at its size (larger ones are refused by the check).
     const sizes = elements.flatMap((e) => Object.values(e.properties).map(String)).filter((value) => /\d+em/.test(value));
-    expect(sizes.some((value) => value.includes("20em"))).toBe(true);
-    expect(sizes.filter((value) => value.includes("9999em"))).toEqual([]);
+    expect(sizes.some((value) => value.includes("10em"))).toBe(true);
   });
 
   it("refuses the brace the same sheet writes as an expression", () => {
     expect(problemsOf(EDGY_SHEET)[0]).toMatchObject({ message: expect.stringMatching(/Curly braces run code/), line: 8 });
+  });
+});
+
+// A formula may not define or re-expand macros: `\def\a{…100 characters…}` used 199 times
+// takes KaTeX over 3 s even with its expansion limit, and the cost grows with the square.
+const bomb = (define: string, use: string, times: number) => `${define}${use.repeat(times)}`;
+const MACRO_BOMBS: { name: string; source: string; command: string; line: number; column: number }[] = [
+  { name: "\\def with a long body", source: `Ripple: $${bomb(`\\def\\a{${"x+".repeat(50)}}`, "\\a", 400)}$`, command: "\\def", line: 1, column: 10 },
+  { name: "\\gdef doubling its argument", source: `$$\n${bomb("\\gdef\\b#1{#1#1}", "\\b{", 30)}x${"}".repeat(30)}\n$$`, command: "\\gdef", line: 2, column: 1 },
+  { name: "\\edef", source: "# Bomb\n\n$\\edef\\c{\\c\\c}\\c$", command: "\\edef", line: 3, column: 2 },
+  { name: "\\xdef", source: "$\\xdef\\d{ddd}\\d$", command: "\\xdef", line: 1, column: 2 },
+  { name: "\\let to a long macro", source: "Text $x$ and $\\let\\e\\frac \\e12$", command: "\\let", line: 1, column: 15 },
+  { name: "\\futurelet", source: "$\\futurelet\\f\\g\\h$", command: "\\futurelet", line: 1, column: 2 },
+  { name: "\\newcommand", source: `$\\newcommand{\\n}[1]{#1#1#1#1}${"\\n{".repeat(12)}x${"}".repeat(12)}$`, command: "\\newcommand", line: 1, column: 2 },
+  { name: "\\renewcommand of a built-in", source: "$\\renewcommand{\\sqrt}[1]{#1#1}\\sqrt{\\sqrt{\\sqrt{x}}}$", command: "\\renewcommand", line: 1, column: 2 },
+  { name: "\\providecommand", source: "$\\providecommand{\\p}{ppp}\\p\\p$", command: "\\providecommand", line: 1, column: 2 },
+  { name: "\\expandafter chains", source: `$${"\\expandafter".repeat(50)}x$`, command: "\\expandafter", line: 1, column: 2 },
+  { name: "\\global before a definition", source: "$\\global\\def\\g{ggg}\\g$", command: "\\global", line: 1, column: 2 },
+  { name: "\\char by number", source: 'Fine $x^2$.\n\nThen $\\char"2713$ forged', command: "\\char", line: 3, column: 7 },
+  { name: "KaTeX's internal \\@ifnextchar", source: "$\\@ifnextchar x{a}{b}x$", command: "\\@ifnextchar", line: 1, column: 2 },
+  { name: "\\TextOrMath", source: "$\\TextOrMath{a}{b}$", command: "\\TextOrMath", line: 1, column: 2 },
+  { name: "a definition deep in a display formula", source: "# Sheet\n\n$$\n\\begin{aligned}\nv &= 1 \\\\\n\\def\\z{zz} w &= \\z\n\\end{aligned}\n$$", command: "\\def", line: 6, column: 1 },
+  { name: "a definition in a fenced math block", source: "```math\nx = 1 \\newcommand\\q{q}\\q\n```", command: "\\newcommand", line: 2, column: 7 },
+  { name: "a definition hidden in \\text", source: "$\\text{a \\def\\t{tt}\\t}$", command: "\\def", line: 1, column: 10 },
+];
+
+describe.each(MACRO_BOMBS)("a macro bomb: $name", ({ source, command, line, column }) => {
+  it("is refused with a message naming the command, at its line and column, and nothing is typeset", () => {
+    const checked = checkSheetSource(source);
+    expect(checked.ok).toBe(false);
+    expect(problemsOf(source)).toContainEqual({ message: expect.stringMatching(new RegExp(`^${command.replace(/[\\@]/g, "\\$&")} `)), line, column });
+    expect(Object.keys(checked).sort()).toEqual(["ok", "problems"]);
+  });
+});
+
+// Sizes that would move a formula over the page around it: the title block, the state, the stamp.
+const OVERLAYS: { name: string; tex: string; message: RegExp }[] = [
+  { name: "a kern far back", tex: "\\kern-500em \\textsf{VERIFIED}", message: /^\\kern moves by -500em; a formula may move back or down by at most 3 em/ },
+  { name: "a math kern far back", tex: "\\mkern-9000mu \\checkmark", message: /^\\mkern moves by -9000mu/ },
+  { name: "a math skip far back", tex: "\\mskip-100mu x", message: /^\\mskip moves by -100mu/ },
+  { name: "\\hspace far back", tex: "\\hspace{-400em}\\text{Checked}", message: /^\\hspace moves by -400em/ },
+  { name: "\\hspace* far back in points", tex: "\\hspace*{ -4000pt }x", message: /^\\hspace moves by -4000pt/ },
+  { name: "a raise far down", tex: "\\raisebox{-300em}{\\text{Verified}}", message: /^\\raisebox moves by -300em/ },
+  { name: "a raise far up", tex: "\\raisebox{300em}{\\text{Verified}}", message: /^\\raisebox gives the size 300em; sizes in a formula may be at most 10 em/ },
+  { name: "a huge rule", tex: "\\rule{500em}{500em}", message: /^\\rule gives the size 500em/ },
+  { name: "a rule in inches", tex: "\\rule[-2in]{1em}{1em}", message: /^\\rule moves by -2in/ },
+  { name: "a line break far up", tex: "\\begin{aligned}a\\\\[-300em] b\\end{aligned}", message: /^\\\\ moves by -300em/ },
+  { name: "many small kerns back", tex: "\\kern-2.9em\\kern-2.9em\\kern-2.9em x", message: /moves back or down by more than 6 em in all/ },
+  { name: "a coloured box", tex: "\\colorbox{green}{\\text{VERIFIED}}", message: /^\\colorbox paints a background/ },
+  { name: "a framed coloured box", tex: "\\fcolorbox{red}{green}{OK}", message: /^\\fcolorbox paints a background/ },
+];
+
+describe.each(OVERLAYS)("an overlay attempt: $name", ({ tex, message }) => {
+  it("is refused with a message saying the bound", () => {
+    const source = `# Title\n\nResult: $${tex}$`;
+    expect(problemsOf(source)).toContainEqual({ message: expect.stringMatching(message), line: 3, column: expect.any(Number) });
+  });
+});
+
+describe("ordinary formulas with spacing, raises, rules and overlaps", () => {
+  it("are typeset as before", () => {
+    const ordinary = [
+      "$a\\kern-0.2em b$, $\\mkern-18mu x$, $\\hspace{2em}y$, $\\raisebox{0.5ex}{z}$, $\\rule{5em}{0.4pt}$, $\\mathllap{=}x$, $\\color{red}{x}$",
+      "",
+      "$$\n\\begin{aligned}\nv &= L\\frac{di}{dt} \\\\[4pt]\n\\hat I &= \\sqrt{2}\\,\\frac{P}{pf\\,V_{out}}\n\\end{aligned}\n$$",
+      "",
+      "$\\operatorname{THD} = \\frac{\\sqrt{\\sum_{h=2}^{\\infty} V_h^2}}{V_1} \\neq 0 \\dots$",
+    ].join("\n");
+    const checked = checkSheetSource(ordinary);
+    if (!checked.ok) throw new Error(JSON.stringify(checked.problems));
+    expect(elementsOf(checked.tree).some((e) => String(e.properties.className).includes("katex-error"))).toBe(false);
+    expect(elementsOf(checked.tree).filter((e) => Array.isArray(e.properties.className) && e.properties.className.includes("katex")).length).toBe(9);
   });
 });
