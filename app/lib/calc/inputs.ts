@@ -440,7 +440,11 @@ function wrongQuantityMessage(spec: SpectrumInputSpec, wanted: SpectrumQuantity,
  */
 function referenceCoverage(context: InputContext, block: string, harmonics: Harmonic[]): number {
   const hmax = context.blockInputs?.[block]?.hmax;
-  if (typeof hmax === "number" && Number.isFinite(hmax)) return hmax;
+  if (typeof hmax === "number" && Number.isFinite(hmax)) {
+    // A source that lists only odd orders has half-wave symmetry: the even order after an odd hmax is zero, so it is covered too.
+    const oddOnly = harmonics.every((h) => h.n < 2 || (Number.isInteger(h.n) && h.n % 2 === 1));
+    return oddOnly && hmax % 2 === 1 ? hmax + 1 : hmax;
+  }
   return harmonics.reduce((highest, h) => Math.max(highest, h.n), 1);
 }
 
