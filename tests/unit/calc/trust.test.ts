@@ -237,3 +237,34 @@ describe("DC link: ripple follows apparent power (issue #16 item 12)", () => {
     expectClose((high - low) / 2, valueOf(lagging.results, "apparentPower"), { rel: 1e-6 });
   });
 });
+
+describe("formula results keep their meaning (issue #16 item 9)", () => {
+  const formula = (expr: string, extra: { id: string; calculator: string; inputs: Record<string, unknown> }[] = []) =>
+    sheet([...extra, { id: "f", calculator: "formula", inputs: { expr } }]).f;
+  const qs = { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg" } };
+  const stress = (id: string, ta: string) => ({
+    id,
+    calculator: "switch-stress",
+    inputs: { vdc: "400 V", p: "1 kW", fsw: "20 kHz", rdsOn: "10 mohm", tr: "20 ns", tf: "20 ns", rthJa: "2 K/W", vRated: "600 V", ta },
+  });
+
+  it("a difference of temperatures is in K (SI: a temperature interval is expressed in kelvin — BIPM SI Brochure, 9th ed., §2.3.1, section from memory)", () => {
+    const outcome = okOf(formula("hot.tj - cold.tj", [stress("hot", "60 degC"), stress("cold", "40 degC")]));
+    expect(outcome.results.value).toMatchObject({ unit: "K", display: "20.0 K" });
+    expectClose((outcome.results.value as { value: number }).value, 20, { rel: 1e-9 });
+  });
+
+  it("a percentage scaled by a pure number stays a percentage (derived: x % × k = k·x %)", () => {
+    const scaled = okOf(formula("qs1.thd * 1", [qs])).results.value as { value: number; unit: string };
+    const thd = okOf(sheet([qs]).qs1).results.thd as { value: number };
+    expect(scaled.unit).toBe("%");
+    expectClose(scaled.value, thd.value, { rel: 1e-12 });
+    expect(okOf(formula("qs1.thd * qs1.thd", [qs])).results.value).toMatchObject({ unit: "" });
+  });
+
+  it("adding different kinds of quantity gives a user's message, not the library's", () => {
+    const errors = errorsOf(formula("qs1.v1Rms + 2 A", [qs]));
+    expect(errors[0]!.message).toMatch(/^cannot add 2 A \(a current\) to .* V \(a voltage\): they are different kinds of quantity/);
+    expect(errors[0]!.message).not.toMatch(/addScalar|index/);
+  });
+});
