@@ -268,3 +268,20 @@ describe("formula results keep their meaning (issue #16 item 9)", () => {
     expect(errors[0]!.message).not.toMatch(/addScalar|index/);
   });
 });
+
+describe("words, not symbols, for the unbounded (issue #16 item 10)", () => {
+  // Derived: an unloaded LC low-pass has |H| = 1/|1 − (f/f0)²|, without bound at f0 = 1/(2π√(LC)).
+  it("an unloaded filter evaluated at f0 reports no gain there, and says why", () => {
+    const f0 = 1 / (2 * Math.PI * Math.sqrt(1e-3 * 10e-6));
+    const { results, warnings } = run("lc-filter", { l: "1 mH", c: "10 uF", fsw: `${f0} Hz` });
+    expect(results.gainFswDb).toBeUndefined();
+    expect(warnings.join(" ")).toMatch(/The gain at the switching frequency \(1.59 kHz\) is unbounded and not reported: it sits at the corner f0 of an unloaded filter, which has no damping/);
+    expect(warnings.join(" ")).not.toMatch(/∞|287/);
+  });
+
+  it("formats an unbounded value as a word, never ∞ with a unit", async () => {
+    const { formatQuantity } = await import("~/lib/calc/format");
+    expect(formatQuantity(Infinity, "%")).toBe("unbounded");
+    expect(formatQuantity(Infinity, "Hz")).toBe("unbounded");
+  });
+});
