@@ -51,9 +51,40 @@ export default function Calculators() {
       <p className="max-w-3xl text-ink-soft">
         Every calculator a calc sheet can hold, with its inputs, outputs, formulas, conventions and published sources. Type
         quantities as you would write them — <code>48 V</code>, <code>4.7 uF</code>, <code>2.2mH</code>, <code>20 kHz</code>,{" "}
-        <code>30°</code>; a bare number takes the unit shown. Any input may instead reference another block's result, such as{" "}
-        <code>=qs1.v1Rms</code>.
+        <code>30°</code>. Any input may instead reference another block's result, such as <code>=qs1.v1Rms</code>.
       </p>
+      <section aria-labelledby="rules-heading" className="panel mt-6 max-w-3xl p-5">
+        <h2 id="rules-heading" className="font-semibold">
+          How inputs are read
+        </h2>
+        <ul className="mt-2 list-disc space-y-1.5 pl-5 text-sm leading-relaxed text-ink-soft">
+          <li>
+            <strong>Units are required.</strong> A quantity with a dimension needs its unit. A bare number — typed, or a JSON number
+            sent to the API — is refused with its readings spelled out: <code>c = 4.7e-6</code> gives “4.7e-6 has no unit: did you mean
+            4.7 µF?”. Only inputs listed below as <em>dimensionless</em> (ma, mf, pf, hmax, Isc/IL …) take bare numbers.
+          </li>
+          <li>
+            <strong>Spellings.</strong> A unit in another case or with a trade habit — <code>20 KHz</code>, <code>48 v</code>,{" "}
+            <code>10 Ohm</code>, <code>4.7 uf</code>, <code>48 VDC</code>, <code>30º</code>, <code>60hz</code> — is read when exactly one
+            unit of the input's dimension matches, and the block says how it read it. Where milli and mega could be confused (
+            <code>mv</code>/<code>MV</code>, <code>mhz</code>/<code>MHZ</code>) it is refused: write the unit exactly. Apparent power (
+            <code>kVA</code>) is not accepted where real power (W) is asked for.
+          </li>
+          <li>
+            <strong>Empty inputs.</strong> An input left out or left empty takes the default shown below, and the block lists it under
+            “Default used”. An input with no default must be given.
+          </li>
+          <li>
+            <strong>Lists.</strong> Separate items with a comma and a space and write decimals with a point. <code>9,59 deg</code> has
+            two readings (9.59° or 9° and 59°) and is refused.
+          </li>
+          <li>
+            <strong>Limit checks.</strong> A verdict needs the whole range the table limits (IEEE Std 519-2014 to order 50, IEC
+            61000-3-2 to order 40): a referenced spectrum reaches its block's hmax, a typed one its highest order or{" "}
+            <code>listedTo</code>. Current tables refuse voltage spectra. Interharmonics and limits entered from memory give no verdict.
+          </li>
+        </ul>
+      </section>
       <section aria-labelledby="thd-heading" className="panel mt-6 max-w-3xl p-5">
         <h2 id="thd-heading" className="font-semibold">
           Why three THD figures

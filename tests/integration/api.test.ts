@@ -167,3 +167,34 @@ describe("stable revision links", () => {
     expect(refused.caution).toBeUndefined();
   });
 });
+
+describe("engine API: the same input messages as the sheet (issue #16)", () => {
+  it("refuses a bare number for a dimensioned input, JSON number or string, with the readings spelled out", async () => {
+    const engineer = await new Visitor().signIn("engineer@example.com");
+    const response = await engineer.postJson(evaluatePath("lc-filter"), { inputs: { l: "1 mH", c: "4.7e-6", fsw: 20000 } });
+    expect(response.status).toBe(400);
+    const { fieldErrors } = await response.json();
+    expect(fieldErrors).toEqual(
+      expect.arrayContaining([
+        { field: "c", message: expect.stringMatching(/^c: 4.7e-6 has no unit: did you mean 4.7 µF/) },
+        { field: "fsw", message: expect.stringMatching(/^fsw: 20000 has no unit: did you mean 20 kHz/) },
+      ]),
+    );
+  });
+
+  it("refuses a truncated spectrum on /api/v1/evaluate with what to raise, and lists defaults used", async () => {
+    const engineer = await new Visitor().signIn("engineer@example.com");
+    const response = await engineer.postJson("/api/v1/evaluate", {
+      blocks: [
+        { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", hmax: "3" } },
+        { id: "lim", calculator: "harmonic-limits", inputs: { standard: "ieee519-voltage", busVoltage: "230 V", spectrum: "=qs1.harmonics" } },
+      ],
+    });
+    const body = await response.json();
+    const lim = body.blocks.lim;
+    expect(lim.ok).toBe(false);
+    expect(lim.errors[0].message).toMatch(/reaches order 4, but IEEE Std 519-2014 limits orders up to 50.*Raise the source block's hmax to 50/);
+    const qs1 = body.blocks.qs1;
+    expect(qs1.defaultsUsed).toContainEqual({ key: "alpha", value: expect.any(String) });
+  });
+});

@@ -454,6 +454,18 @@ export function CalculatorBlock({ blockId, calculatorId, inputs, outcome, editab
           </div>
         ) : null}
 
+        {outcome?.ok && outcome.defaultsUsed && outcome.defaultsUsed.length > 0 ? (
+          <p className="m-0 mt-3 text-sm text-ink-soft">
+            <span className="font-medium text-ink">Default used:</span>{" "}
+            {outcome.defaultsUsed.map((d, i) => (
+              <span key={d.key}>
+                {i > 0 ? ", " : null}
+                <span className="font-mono">{d.key}</span> = <span className="font-mono">{d.value}</span>
+              </span>
+            ))}
+          </p>
+        ) : null}
+
         {warnings.length > 0 ? (
           <div className="mt-4">
             <Warnings warnings={warnings} blockId={blockId} />
@@ -464,7 +476,7 @@ export function CalculatorBlock({ blockId, calculatorId, inputs, outcome, editab
           <LimitsCheck
             blockId={blockId}
             rows={limitRows}
-            pass={results.pass === true}
+            pass={typeof results.pass === "boolean" ? results.pass : undefined}
             source={results.source as StandardSource | undefined}
             thd={scalarOf("thd")}
             thdLimit={scalarOf("thdLimit")}

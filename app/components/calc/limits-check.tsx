@@ -6,7 +6,8 @@ import { OverMark, PassMark, WarningMark } from "./status-icons";
 interface LimitsCheckProps {
   blockId: string;
   rows: readonly LimitRow[];
-  pass: boolean;
+  /** Undefined when the engine gives no verdict (limits from memory, interharmonics); the block's notes say why. */
+  pass: boolean | undefined;
   source: StandardSource | undefined;
   thd: ScalarResult | undefined;
   thdLimit: ScalarResult | undefined;
@@ -24,6 +25,11 @@ function Verdict({ pass }: { pass: boolean }) {
   );
 }
 
+/** A row's comparison when the limits are informative only: words, no pass mark. */
+function Informative({ pass }: { pass: boolean }) {
+  return <span className="font-medium text-[#5e480a]">{pass ? "within" : "above"} (informative)</span>;
+}
+
 /** The harmonic-limits verdict: overall word, THD against its limit, every order, and where the limits come from. */
 export function LimitsCheck({ blockId, rows, pass, source, thd, thdLimit }: LimitsCheckProps) {
   const unverified = source?.status === "memory";
@@ -37,11 +43,24 @@ export function LimitsCheck({ blockId, rows, pass, source, thd, thdLimit }: Limi
 
   return (
     <section aria-label={`Limits check of ${blockId}`} className="mt-4 space-y-3">
-      <div className={`rounded-md border px-3 py-2.5 ${pass ? "border-[#b8d3b3] bg-verified-wash" : "border-[#e2b4b0] bg-danger-wash"}`}>
-        <p className="m-0 flex flex-wrap items-baseline gap-x-2 text-base">
-          <span className="text-sm text-ink-soft">Verdict (estimate):</span> <Verdict pass={pass} />{" "}
-          <span className="text-sm text-ink-soft">— {reasons.join("; ")}.</span>
-        </p>
+      <div
+        className={`rounded-md border px-3 py-2.5 ${pass === undefined ? "border-[#e3cf8f] bg-waiting-wash" : pass ? "border-[#b8d3b3] bg-verified-wash" : "border-[#e2b4b0] bg-danger-wash"}`}
+      >
+        {pass === undefined ? (
+          <p className="m-0 flex flex-wrap items-baseline gap-x-2 text-base">
+            <span className="inline-flex items-center gap-1 font-semibold text-[#5e480a]">
+              <WarningMark /> No verdict
+            </span>{" "}
+            <span className="text-sm text-ink-soft">
+              — {unverified ? "these limits were entered from memory and are unverified: the comparison below is informative only" : "the spectrum has lines the table does not limit (see the notes above)"}.
+            </span>
+          </p>
+        ) : (
+          <p className="m-0 flex flex-wrap items-baseline gap-x-2 text-base">
+            <span className="text-sm text-ink-soft">Verdict (estimate):</span> <Verdict pass={pass} />{" "}
+            <span className="text-sm text-ink-soft">— {reasons.join("; ")}.</span>
+          </p>
+        )}
         {thd && thdLimit ? (
           <p className="m-0 mt-1 text-sm text-ink-soft">
             THD <span className="font-mono text-ink">{thd.display}</span> against a limit of{" "}
@@ -70,7 +89,7 @@ export function LimitsCheck({ blockId, rows, pass, source, thd, thdLimit }: Limi
             <thead className="sticky top-0 bg-sheet text-xs text-ink-faint">
               <tr>
                 <th scope="col" className="px-2 py-1.5 font-medium sm:px-3">n</th>
-                <th scope="col" className="px-2 py-1.5 text-left font-medium sm:px-3">Verdict</th>
+                <th scope="col" className="px-2 py-1.5 text-left font-medium sm:px-3">{unverified ? "Comparison" : "Verdict"}</th>
                 <th scope="col" className="px-2 py-1.5 font-medium sm:px-3">Value</th>
                 <th scope="col" className="px-2 py-1.5 font-medium sm:px-3">Limit</th>
                 <th scope="col" className="px-2 py-1.5 font-medium sm:px-3">Margin</th>
@@ -83,8 +102,7 @@ export function LimitsCheck({ blockId, rows, pass, source, thd, thdLimit }: Limi
                   <tr key={row.n} className={`border-t border-rule/70 ${row.pass ? "" : "bg-danger-wash/60"}`}>
                     <th scope="row" className="px-2 py-1 font-mono font-medium sm:px-3">{row.n}</th>
                     <td className="px-2 py-1 text-left sm:px-3">
-                      <Verdict pass={row.pass} />
-                      {unverified ? <span className="ml-1 text-xs text-[#5e480a]"> unverified</span> : null}
+                      {unverified ? <Informative pass={row.pass} /> : <Verdict pass={row.pass} />}
                     </td>
                     <td className="px-2 py-1 font-mono sm:px-3">{formatQuantity(row.value, unit)}</td>
                     <td className="px-2 py-1 font-mono sm:px-3">{formatQuantity(row.limit, unit)}</td>

@@ -8,7 +8,7 @@
  * input; a block that depends on a failed block says which; every other block
  * still computes. The result is deterministic and JSON-safe. Never throws.
  */
-import { parseInputs, type InputContext } from "./inputs";
+import { parseInputs, type DefaultUsed, type InputContext } from "./inputs";
 import { getCalculator, calculatorIds } from "./registry";
 import { runCalculator } from "./run";
 import { BLOCK_ID_PATTERN, checkExpression, type BlockReference } from "./safe-expression";
@@ -22,7 +22,8 @@ export interface SheetBlock {
 }
 
 export type BlockOutcome =
-  | { ok: true; calculator: string; results: Results; warnings: string[]; inputs: ParsedInputs }
+  // defaultsUsed: inputs left empty and the defaults that stood in (older stored outcomes lack it).
+  | { ok: true; calculator: string; results: Results; warnings: string[]; inputs: ParsedInputs; defaultsUsed?: DefaultUsed[] }
   | { ok: false; calculator: string; errors: FieldError[] };
 
 export interface SheetEvaluation {
@@ -35,7 +36,7 @@ export interface SheetEvaluation {
 }
 
 export type CalculatorEvaluation =
-  | { ok: true; calculator: string; engineVersion: string; results: Results; warnings: string[]; inputs: ParsedInputs }
+  | { ok: true; calculator: string; engineVersion: string; results: Results; warnings: string[]; inputs: ParsedInputs; defaultsUsed?: DefaultUsed[] }
   | { ok: false; calculator: string; engineVersion: string; errors: FieldError[] };
 
 /** One calculator on its own, for the single-calculator API. References to other blocks are field errors here. */
@@ -60,7 +61,14 @@ function evaluateBlock(calculator: Calculator, raw: unknown, context: InputConte
   if (!parsed.ok) return { ok: false, calculator: calculator.id, errors: parsed.errors };
   const run = runCalculator(calculator, parsed.values, { blockResults: context?.blockResults ?? {} });
   if (!run.ok) return { ok: false, calculator: calculator.id, errors: run.errors };
-  return { ok: true, calculator: calculator.id, results: run.results, warnings: [...parsed.warnings, ...run.warnings], inputs: parsed.values };
+  return {
+    ok: true,
+    calculator: calculator.id,
+    results: run.results,
+    warnings: [...parsed.warnings, ...run.warnings],
+    inputs: parsed.values,
+    defaultsUsed: parsed.defaultsUsed,
+  };
 }
 
 /** Which other blocks a block's raw inputs refer to, with the input that does. */
@@ -187,6 +195,7 @@ function evaluateInto(blocks: unknown, evaluation: SheetEvaluation): void {
   const known = new Set(pending.map((b) => b.id));
   const blockResults: Record<string, Results> = Object.create(null) as Record<string, Results>;
   const blockOutputs: Record<string, OutputSpec[]> = Object.create(null) as Record<string, OutputSpec[]>;
+  const blockInputs: Record<string, ParsedInputs> = Object.create(null) as Record<string, ParsedInputs>;
   const done = new Set<string>();
 
   // Stable topological order: repeatedly take the earliest block whose dependencies are settled.
@@ -202,12 +211,13 @@ function evaluateInto(blocks: unknown, evaluation: SheetEvaluation): void {
         next.push(block);
         continue;
       }
-      settle(block.id, evaluatePending(block, evaluation, blockResults, blockOutputs, known, duplicates));
+      settle(block.id, evaluatePending(block, evaluation, { blockResults, blockOutputs, blockInputs }, known, duplicates));
       done.add(block.id);
       const outcome = evaluation.blocks[block.id]!;
       if (outcome.ok) {
         blockResults[block.id] = outcome.results;
         blockOutputs[block.id] = block.calculator?.outputs ?? [];
+        blockInputs[block.id] = outcome.inputs;
       }
       progressed = true;
       // Restart from the top so an earlier block unblocked by this one goes first.
@@ -238,8 +248,7 @@ function evaluateInto(blocks: unknown, evaluation: SheetEvaluation): void {
 function evaluatePending(
   block: PendingBlock,
   evaluation: SheetEvaluation,
-  blockResults: Record<string, Results>,
-  blockOutputs: Record<string, OutputSpec[]>,
+  context: Required<InputContext>,
   known: Set<string>,
   duplicates: Set<string>,
 ): BlockOutcome {
@@ -253,5 +262,5 @@ function evaluatePending(
     if (message) for (const field of fields) errors.push({ field, message });
   }
   if (errors.length > 0) return { ok: false, calculator: block.calculator.id, errors };
-  return evaluateBlock(block.calculator, block.raw, { blockResults, blockOutputs });
+  return evaluateBlock(block.calculator, block.raw, context);
 }

@@ -73,13 +73,14 @@ function precise(magnitude: number, digits: number): string {
 /**
  * Formats `value` (in the SI unit `unit`) for display, e.g.
  * formatQuantity(4.7e-6, "F") → "4.70 µF", formatQuantity(0.05, "%") → "0.0500 %".
- * NaN shows as "—"; −0 shows as 0.
+ * NaN shows as "—"; ±Infinity as "unbounded" (with no unit); −0 shows as 0.
  */
 export function formatQuantity(value: number, unit: string, opts: FormatOptions = {}): string {
   const digits = clampDigits(opts.digits);
   const tidy = opts.trimZeros ? trim : (text: string) => text;
   if (typeof value !== "number" || Number.isNaN(value)) return "—";
-  if (!Number.isFinite(value)) return withUnit(value > 0 ? "∞" : `${MINUS}∞`, "", unit);
+  // Words, not a symbol: "∞ %" reads like a measured figure.
+  if (!Number.isFinite(value)) return value > 0 ? "unbounded" : "unbounded (negative)";
   if (value === 0) return withUnit("0", "", unit);
 
   const sign = value < 0 ? MINUS : "";

@@ -9,7 +9,15 @@
  * beginning with "=" (`=qs1.v1Rms * 1.1`) and spectrum references
  * (`=qs1.harmonics`), and spectra are put in the unit the calculator asks for.
  *
- * A bare number takes the input's display unit ("48" for vdc means 48 V).
+ * Rules every input follows (stated for users on the Calculators page):
+ * - A dimensioned input needs its unit: a bare number, typed or sent as JSON, is
+ *   refused with its readings spelled out (`units.ts`); only inputs documented as
+ *   dimensionless take bare numbers.
+ * - A unit read through a spelling variant ("20 KHz") is echoed in `notes`.
+ * - An absent or empty input ("", null) takes the calculator's default, and says
+ *   so: `defaultsUsed` lists each one ("f = 50 Hz"), shown beside the result.
+ * - A list item with a comma between digits ("9,59 deg") has two readings and is
+ *   refused, naming both.
  */
 import { z } from "zod";
 import { formatQuantity } from "./format";
@@ -29,6 +37,7 @@ import type {
   Results,
   SpectrumInputSpec,
   SpectrumLine,
+  SpectrumQuantity,
   SpectrumValueUnit,
 } from "./types";
 
@@ -37,11 +46,19 @@ export interface InputContext {
   blockResults: Record<string, Results>;
   /** Each block's output specs, to learn the unit of a referenced output (e.g. harmonics in V or A). */
   blockOutputs?: Record<string, OutputSpec[]>;
+  /** Each block's parsed inputs, to learn how far a referenced spectrum reaches (its `hmax`). */
+  blockInputs?: Record<string, ParsedInputs>;
 }
 
 export type ParseInputsResult =
-  | { ok: true; values: ParsedInputs; warnings: string[] }
+  | { ok: true; values: ParsedInputs; warnings: string[]; defaultsUsed: DefaultUsed[] }
   | { ok: false; errors: FieldError[] };
+
+/** An input left empty and the default that stood in for it, as typed in the calculator ("50 Hz"). */
+export interface DefaultUsed {
+  key: string;
+  value: string;
+}
 
 const MAX_LIST_ITEMS = 1000;
 const DEFAULT_MAX_ORDER = 1000;
@@ -59,7 +76,27 @@ interface SpectrumEntry {
   value: SpectrumEntryValue;
 }
 
-type FirstPass = number | string | (number | Deferred)[] | SpectrumEntry[] | Deferred | undefined;
+/** A quantity read through a spelling variant, with the words that say how it was read. */
+interface Understood {
+  value: number;
+  understood: string;
+}
+
+/** A default standing in for an absent input. */
+interface Defaulted {
+  defaulted: FirstPass;
+  text: string;
+}
+
+type FirstPass = number | Understood | string | (number | Understood | Deferred)[] | SpectrumEntry[] | Deferred | Defaulted | undefined;
+
+function isUnderstood(value: unknown): value is Understood {
+  return typeof value === "object" && value !== null && typeof (value as Understood).understood === "string";
+}
+
+function isDefaulted(value: unknown): value is Defaulted {
+  return typeof value === "object" && value !== null && "defaulted" in value;
+}
 
 function isDeferred(value: unknown): value is Deferred {
   return typeof value === "object" && value !== null && !Array.isArray(value) && typeof (value as Deferred).expression === "string";
@@ -96,7 +133,19 @@ function readQuantity(spec: QuantityInputSpec, raw: unknown, issue: Issue): Firs
     issue(parsed.message);
     return undefined;
   }
-  return parsed.value;
+  return parsed.understood ? { value: parsed.value, understood: parsed.understood } : parsed.value;
+}
+
+/** "9,59 deg": a comma between digits reads as a decimal comma or as two items; the engine takes neither silently. */
+function decimalCommaProblem(spec: QuantityListInputSpec, text: string): string | undefined {
+  // Commas inside parentheses separate function arguments ("min(2,3) deg").
+  const match = /(\d+),(\d+)/.exec(text.replace(/\([^()]*\)/g, ""));
+  if (!match) return undefined;
+  const [whole, left, right] = match as unknown as [string, string, string];
+  return (
+    `${spec.key}: "${whole}" has two readings — ${left}.${right} (a decimal comma) or ${left} and ${right} (two items); ` +
+    `write decimals with a point and separate items with a comma and a space, e.g. ${left}.${right} deg or ${left} deg, ${right} deg`
+  );
 }
 
 function readChoice(spec: ChoiceInputSpec, raw: unknown, issue: Issue): FirstPass {
@@ -144,6 +193,13 @@ function readQuantityList(spec: QuantityListInputSpec, raw: unknown, issue: Issu
       issue(`${spec.key}: could not read the list; write e.g. 10 deg, 20 deg or ["10 deg", "20 deg"]`);
       return undefined;
     }
+    if (!asJson) {
+      const problem = decimalCommaProblem(spec, raw);
+      if (problem) {
+        issue(problem);
+        return undefined;
+      }
+    }
     items = asJson ?? (raw.trim() === "" ? [] : splitTopLevel(raw));
   } else {
     issue(`${spec.key} must be a list, e.g. ${dimensionExample(spec.dimension)}, …; got ${describeRaw(raw)}`);
@@ -155,7 +211,7 @@ function readQuantityList(spec: QuantityListInputSpec, raw: unknown, issue: Issu
     issue(`${spec.key} must have ${minItems === maxItems ? minItems : `${minItems} to ${maxItems}`} item(s); got ${items.length}`);
     return undefined;
   }
-  const values: (number | Deferred)[] = [];
+  const values: (number | Understood | Deferred)[] = [];
   let failed = false;
   items.forEach((item, i) => {
     const itemSpec: QuantitySpec = { ...spec, key: `${spec.key} item ${i + 1}` };
@@ -169,7 +225,7 @@ function readQuantityList(spec: QuantityListInputSpec, raw: unknown, issue: Issu
       return;
     }
     const parsed = parseQuantity(item, itemSpec);
-    if (parsed.ok) values.push(parsed.value);
+    if (parsed.ok) values.push(parsed.understood ? { value: parsed.value, understood: parsed.understood } : parsed.value);
     else {
       issue(parsed.message);
       failed = true;
@@ -305,7 +361,10 @@ function schemaFor(calculator: Calculator) {
       const issue: Issue = (message) => ctx.addIssue({ code: "custom", message });
       const absent = raw === undefined || raw === null || (typeof raw === "string" && raw.trim() === "");
       if (absent) {
-        if (spec.default !== undefined) return readField(spec, spec.default, issue);
+        if (spec.default !== undefined) {
+          const value = readField(spec, spec.default, issue);
+          return value === undefined ? z.NEVER : { defaulted: value, text: spec.default };
+        }
         if (spec.optional) return undefined;
         issue(`${spec.key} (${spec.label}) is required, e.g. ${exampleOf(spec)}`);
         return z.NEVER;
@@ -361,13 +420,42 @@ function isHarmonicList(value: unknown): value is Harmonic[] {
   return Array.isArray(value) && value.every((h) => typeof h === "object" && h !== null && typeof (h as Harmonic).n === "number" && typeof (h as Harmonic).rms === "number" && typeof (h as Harmonic).percent === "number");
 }
 
+/** The physical quantity a spectrum input must hold, possibly chosen by another input. */
+function spectrumQuantity(spec: SpectrumInputSpec, values: Record<string, FirstPass>): SpectrumQuantity | undefined {
+  const byChoice = spec.quantityByChoice;
+  if (!byChoice) return undefined;
+  const choice = values[byChoice.input];
+  return typeof choice === "string" && Object.hasOwn(byChoice.quantities, choice) ? byChoice.quantities[choice] : undefined;
+}
+
+function wrongQuantityMessage(spec: SpectrumInputSpec, wanted: SpectrumQuantity, got: string, what: string): string {
+  return wanted === "current"
+    ? `${spec.key}: this limit table limits harmonic currents, and ${what} ${got === "voltage" ? "are voltage harmonics" : `are in ${got}`}. Current harmonics depend on the load as much as on the inverter: give the load's current spectrum (measured or simulated)`
+    : `${spec.key}: this limit table limits voltage harmonics, and ${what} are ${got} harmonics; give the voltage spectrum`;
+}
+
+/**
+ * How far a referenced spectrum reaches: the source block's `hmax` when it has one
+ * (its harmonics list every order it keeps up to there), else its highest listed order.
+ */
+function referenceCoverage(context: InputContext, block: string, harmonics: Harmonic[]): number {
+  const hmax = context.blockInputs?.[block]?.hmax;
+  if (typeof hmax === "number" && Number.isFinite(hmax)) {
+    // A source that lists only odd orders has half-wave symmetry: the even order after an odd hmax is zero, so it is covered too.
+    const oddOnly = harmonics.every((h) => h.n < 2 || (Number.isInteger(h.n) && h.n % 2 === 1));
+    return oddOnly && hmax % 2 === 1 ? hmax + 1 : hmax;
+  }
+  return harmonics.reduce((highest, h) => Math.max(highest, h.n), 1);
+}
+
 function resolveSpectrumReference(
   spec: SpectrumInputSpec,
   expression: string,
   unit: SpectrumValueUnit,
+  quantity: SpectrumQuantity | undefined,
   context: InputContext,
   warnings: string[],
-): { ok: true; lines: SpectrumLine[] } | { ok: false; message: string } {
+): { ok: true; lines: SpectrumLine[]; coverage: number } | { ok: false; message: string } {
   const outcome = evaluateExpression(expression, context.blockResults);
   if (!outcome.ok) return { ok: false, message: `${spec.key}: ${outcome.message}` };
   if (outcome.kind !== "result" || !isHarmonicList(outcome.value)) {
@@ -376,23 +464,28 @@ function resolveSpectrumReference(
   const { block, output } = outcome.reference;
   const sourceUnit = outputUnit(context, block, output) ?? "V";
   const maxOrder = spec.maxOrder ?? DEFAULT_MAX_ORDER;
-  const harmonics = outcome.value.filter((h) => h.n >= 1 && h.n <= maxOrder);
-  if (unit === "A") {
-    if (sourceUnit !== "A") {
-      return { ok: false, message: `${spec.key}: ${block}.${output} are ${sourceUnit === "V" ? "voltage" : sourceUnit} harmonics; this check needs currents in amperes` };
-    }
-    return { ok: true, lines: harmonics.map((h) => ({ n: h.n, value: h.rms })) };
-  }
+  const harmonics = outcome.value.filter((h) => h.n > 0 && h.n <= maxOrder);
+  const coverage = Math.min(referenceCoverage(context, block, outcome.value), maxOrder);
   const kind = sourceUnit === "A" ? "current" : sourceUnit === "V" ? "voltage" : sourceUnit;
-  warnings.push(`${spec.key} is taken from ${block}.${output}: ${kind} harmonics, in % of the fundamental.`);
-  return { ok: true, lines: harmonics.map((h) => ({ n: h.n, value: h.percent })) };
+  const wanted = unit === "A" ? "current" : quantity;
+  if (wanted && kind !== wanted) return { ok: false, message: wrongQuantityMessage(spec, wanted, kind, `${block}.${output}`) };
+  if (unit === "A") return { ok: true, lines: harmonics.map((h) => ({ n: h.n, value: h.rms })), coverage };
+  warnings.push(`${spec.key} is taken from ${block}.${output}: ${kind} harmonics, in % of the fundamental, listed to order ${coverage}.`);
+  return { ok: true, lines: harmonics.map((h) => ({ n: h.n, value: h.percent })), coverage };
 }
 
 /** Puts typed spectrum entries in the wanted unit, converting through the fundamental (n = 1) when needed. */
-function convertSpectrum(spec: SpectrumInputSpec, entries: SpectrumEntry[], unit: SpectrumValueUnit): { ok: true; lines: SpectrumLine[] } | { ok: false; message: string } {
+function convertSpectrum(
+  spec: SpectrumInputSpec,
+  entries: SpectrumEntry[],
+  unit: SpectrumValueUnit,
+  quantity: SpectrumQuantity | undefined,
+): { ok: true; lines: SpectrumLine[] } | { ok: false; message: string } {
   const absoluteUnits = new Set(entries.flatMap((e) => (e.value.kind === "absolute" ? [e.value.unit] : [])));
   if (absoluteUnits.size > 1) return { ok: false, message: `${spec.key}: mixes volts and amperes; give one kind` };
   const absoluteUnit = [...absoluteUnits][0];
+  if (quantity === "current" && absoluteUnit === "V") return { ok: false, message: wrongQuantityMessage(spec, quantity, "voltage", "the values given") };
+  if (quantity === "voltage" && absoluteUnit === "A") return { ok: false, message: wrongQuantityMessage(spec, quantity, "current", "the values given") };
   if (unit === "A" && absoluteUnit === "V") {
     return { ok: false, message: `${spec.key}: this check needs currents in amperes; got volts` };
   }
@@ -440,14 +533,30 @@ export function parseInputs(calculator: Calculator, raw: Record<string, unknown>
 
   const errors: FieldError[] = [];
   const warnings: string[] = [];
+  const defaultsUsed: DefaultUsed[] = [];
   const values: ParsedInputs = {};
+  for (const [key, value] of Object.entries(first)) {
+    if (isDefaulted(value)) {
+      defaultsUsed.push({ key, value: value.text });
+      first[key] = value.defaulted;
+    }
+  }
+  const coverages: Record<string, number> = {};
   for (const spec of calculator.inputs) {
     const value = first[spec.key];
     const resolved = resolveField(spec, value, first, context, warnings);
     if ("error" in resolved) errors.push(resolved.error);
     else if (resolved.value !== undefined) values[spec.key] = resolved.value;
+    if ("coverage" in resolved && resolved.coverage !== undefined && spec.kind === "spectrum" && spec.coverageInput) coverages[spec.coverageInput] = resolved.coverage;
   }
-  return errors.length > 0 ? { ok: false, errors } : { ok: true, values, warnings };
+  // A referenced spectrum reaches as far as its source lists: that fact fills the coverage input, and a typed claim is refused.
+  for (const [key, coverage] of Object.entries(coverages)) {
+    if (values[key] !== undefined && !defaultsUsed.some((d) => d.key === key)) {
+      errors.push({ field: key, message: `${key} is for typed spectra; a referenced spectrum reaches as far as its source lists it (order ${coverage}): raise the source's hmax instead` });
+    }
+    values[key] = coverage;
+  }
+  return errors.length > 0 ? { ok: false, errors } : { ok: true, values, warnings, defaultsUsed };
 }
 
 function resolveField(
@@ -456,20 +565,29 @@ function resolveField(
   first: Record<string, FirstPass>,
   context: InputContext | undefined,
   warnings: string[],
-): { value: ParsedInputValue } | { error: FieldError } {
+): { value: ParsedInputValue; coverage?: number } | { error: FieldError } {
   const fail = (message: string) => ({ error: { field: spec.key, message } });
   if (value === undefined) return { value: undefined };
   switch (spec.kind) {
     case "quantity": {
+      if (isUnderstood(value)) {
+        warnings.push(`${value.understood}.`);
+        return { value: value.value };
+      }
       if (!isDeferred(value)) return { value: value as number };
       if (!context) return { error: noSheet(spec.key) };
       const resolved = resolveQuantityExpression(spec, value.expression, context);
       return resolved.ok ? { value: resolved.value } : fail(resolved.message);
     }
     case "quantityList": {
-      const items = value as (number | Deferred)[];
+      const items = value as (number | Understood | Deferred)[];
       const out: number[] = [];
       for (const [i, item] of items.entries()) {
+        if (isUnderstood(item)) {
+          warnings.push(`${item.understood}.`);
+          out.push(item.value);
+          continue;
+        }
         if (!isDeferred(item)) {
           out.push(item);
           continue;
@@ -483,12 +601,13 @@ function resolveField(
     }
     case "spectrum": {
       const unit = spectrumUnit(spec, first);
+      const quantity = spectrumQuantity(spec, first);
       if (isDeferred(value)) {
         if (!context) return { error: noSheet(spec.key) };
-        const resolved = resolveSpectrumReference(spec, value.expression, unit, context, warnings);
-        return resolved.ok ? { value: resolved.lines } : fail(resolved.message);
+        const resolved = resolveSpectrumReference(spec, value.expression, unit, quantity, context, warnings);
+        return resolved.ok ? { value: resolved.lines, coverage: resolved.coverage } : fail(resolved.message);
       }
-      const converted = convertSpectrum(spec, value as SpectrumEntry[], unit);
+      const converted = convertSpectrum(spec, value as SpectrumEntry[], unit, quantity);
       return converted.ok ? { value: converted.lines } : fail(converted.message);
     }
     case "choice":

@@ -16,7 +16,8 @@
  * fraction in arithmetic (48.3 % → 0.483) and a decibel result its dB number.
  */
 import type { MathNode } from "mathjs";
-import { math, normaliseUnitText, parseExpressionTree, type MathUnit } from "./units";
+import { formatQuantity } from "./format";
+import { dimensionNoun, dimensionOf, math, normaliseUnitText, parseExpressionTree, type MathUnit } from "./units";
 import type { ResultValue, Results, ScalarResult } from "./types";
 
 export const MAX_EXPRESSION_LENGTH = 500;
@@ -216,14 +217,42 @@ function describeKind(value: ResultValue): string {
   return "not a number";
 }
 
-function evaluateNode(node: AnyNode, lookup: (reference: BlockReference) => Value): Value {
+/** A value in evaluation, with whether it still means a percentage (a % result scaled by pure numbers). */
+interface Evaluated {
+  value: Value;
+  percent: boolean;
+}
+
+const isPure = (value: Value) => typeof value === "number" || (math.isUnit(value) && value.units.length === 0);
+const TEMPERATURE_OFFSET_UNITS = new Set(["degC", "degF", "K", "degR", "celsius", "fahrenheit", "kelvin", "rankine"]);
+
+function isTemperature(value: Value): value is MathUnit {
+  return math.isUnit(value) && value.units.length === 1 && TEMPERATURE_OFFSET_UNITS.has(value.units[0]!.unit.name) && value.units[0]!.power === 1;
+}
+
+function describeValue(value: Value): string {
+  if (typeof value === "number") return `the pure number ${formatQuantity(value, "", { digits: 6, trimZeros: true })}`;
+  const dimension = dimensionOf(value);
+  return `${value.toString()}${dimension && dimension !== "dimensionless" ? ` (${dimensionNoun(dimension)})` : ""}`;
+}
+
+/** Adding or subtracting needs one dimension on both sides; say so in the engineer's words. */
+function checkSameDimension(name: string, a: Value, b: Value): void {
+  const same = isPure(a) && isPure(b) ? true : math.isUnit(a) && math.isUnit(b) && a.units.length > 0 && b.units.length > 0 && a.equalBase(b);
+  if (!same) {
+    const verb = name === "add" ? "add" : "subtract";
+    throw new Refusal(`cannot ${verb} ${describeValue(b)} ${name === "add" ? "to" : "from"} ${describeValue(a)}: they are different kinds of quantity; check the units`);
+  }
+}
+
+function evaluateNode(node: AnyNode, lookup: (reference: BlockReference) => Evaluated): Evaluated {
   switch (node.type) {
     case "ConstantNode":
-      return node.value as number;
+      return { value: node.value as number, percent: false };
     case "SymbolNode": {
       const name = node.name as string;
-      if (Object.hasOwn(CONSTANTS, name)) return CONSTANTS[name]!;
-      return math.unit(name);
+      if (Object.hasOwn(CONSTANTS, name)) return { value: CONSTANTS[name]!, percent: false };
+      return { value: math.unit(name), percent: false };
     }
     case "ParenthesisNode":
       return evaluateNode(asNode(node.content), lookup);
@@ -233,11 +262,48 @@ function evaluateNode(node: AnyNode, lookup: (reference: BlockReference) => Valu
     case "FunctionNode": {
       const name = node.type === "OperatorNode" ? (node.fn as string) : (asNode(node.fn).name as string);
       const args = (node.args as AnyNode[]).map((arg) => evaluateNode(arg, lookup));
+      const values = args.map((a) => a.value);
+      if ((name === "add" || name === "subtract") && values.length === 2) {
+        checkSameDimension(name, values[0]!, values[1]!);
+        // The difference of two temperatures is a temperature difference, in kelvin (never an offset scale such as °C).
+        if (name === "subtract" && isTemperature(values[0]!) && isTemperature(values[1]!)) {
+          return { value: math.unit(values[0]!.toNumber("K") - values[1]!.toNumber("K"), "K"), percent: false };
+        }
+      }
       const fn = (math as unknown as Record<string, (...a: Value[]) => Value>)[name]!;
-      return fn(...args);
+      return { value: fn(...values), percent: stillPercent(name, args) };
     }
     default:
       throw new Refusal(`this kind of expression (${node.type}) is not allowed`);
+  }
+}
+
+/**
+ * Whether an operation keeps a percentage a percentage: scaling one by a pure number
+ * (qs1.thd * 1.1, qs1.thd / 2), adding or comparing percentages, its sign or magnitude.
+ * A product or ratio of percentages, or any unit, gives a plain number.
+ */
+function stillPercent(name: string, args: Evaluated[]): boolean {
+  const [a, b] = args;
+  switch (name) {
+    case "multiply":
+      return args.length === 2 && a!.percent !== b!.percent && isPure(a!.percent ? b!.value : a!.value);
+    case "divide":
+      return args.length === 2 && a!.percent && !b!.percent && isPure(b!.value);
+    case "add":
+    case "subtract":
+    case "min":
+    case "max":
+      return args.length > 0 && args.every((x) => x.percent);
+    case "unaryMinus":
+    case "unaryPlus":
+    case "abs":
+    case "round":
+    case "floor":
+    case "ceil":
+      return args.length >= 1 && a!.percent;
+    default:
+      return false;
   }
 }
 
@@ -251,6 +317,8 @@ export type ExpressionOutcome =
       single?: { reference: BlockReference; value: ResultValue };
       /** Set when the expression ends in `to <unit>`: the unit the engineer asked to see. */
       targetUnit?: string;
+      /** True when a pure-number result still means a percentage (a % result scaled by pure numbers): show it in %. */
+      percent?: boolean;
     }
   /** The whole expression is one reference to a result that is not a scalar (harmonics, a verdict …). */
   | { ok: true; kind: "result"; reference: BlockReference; value: ResultValue }
@@ -278,17 +346,18 @@ export function evaluateExpression(text: unknown, blockResults: Record<string, R
     }
   }
 
-  const lookup = (reference: BlockReference): Value => {
+  const lookup = (reference: BlockReference): Evaluated => {
     const resolved = resolveReference(reference, blockResults);
     if (!resolved.ok) throw new Refusal(resolved.message);
     const name = `${reference.block}.${reference.output}`;
     if (!isScalarResult(resolved.value)) throw new Refusal(`${name} is ${describeKind(resolved.value)}, not a number with a unit`);
-    return scalarToValue(resolved.value, name);
+    return { value: scalarToValue(resolved.value, name), percent: resolved.value.unit === "%" };
   };
 
   let quantity: Value;
+  let percent: boolean;
   try {
-    quantity = evaluateNode(root, lookup);
+    ({ value: quantity, percent } = evaluateNode(root, lookup));
   } catch (error) {
     if (error instanceof Refusal) return { ok: false, message: error.message };
     return { ok: false, message: `could not evaluate the expression: ${error instanceof Error ? error.message : String(error)}` };
@@ -304,6 +373,7 @@ export function evaluateExpression(text: unknown, blockResults: Record<string, R
   if (!Number.isFinite(numeric)) return { ok: false, message: "the expression does not give a finite number (division by zero?)" };
 
   const outcome: ExpressionOutcome & { kind: "quantity" } = { ok: true, kind: "quantity", quantity };
+  if (percent && isPure(quantity)) outcome.percent = true;
   if (root.type === "AccessorNode") {
     const reference = referenceOf(root)!;
     const resolved = resolveReference(reference, blockResults);

@@ -83,12 +83,25 @@ export interface SpectrumInputSpec extends InputSpecBase {
   valueUnit?: SpectrumValueUnit;
   /** When the unit follows a choice input, e.g. { input: "standard", units: { "iec61000-3-2-a": "A" } }; unlisted options use valueUnit. */
   valueUnitByChoice?: { input: string; units: Record<string, SpectrumValueUnit> };
+  /**
+   * When the physical quantity follows a choice input (a current-limit table takes
+   * current harmonics only): a referenced spectrum of the other quantity, or typed
+   * values in its unit, are refused by dimension. Unlisted options take either.
+   */
+  quantityByChoice?: { input: string; quantities: Record<string, SpectrumQuantity> };
+  /**
+   * Key of a dimensionless input saying how far the spectrum reaches ("complete to
+   * order"). For a reference it is filled from the source block's `hmax`, so the
+   * calculator can refuse a verdict on a spectrum that stops short of its table.
+   */
+  coverageInput?: string;
   /** Highest harmonic order accepted (default 1000). */
   maxOrder?: number;
   default?: string;
 }
 
 export type SpectrumValueUnit = "%" | "A";
+export type SpectrumQuantity = "voltage" | "current";
 
 /** A mathjs expression with units (formula calculator only). */
 export interface ExpressionInputSpec extends InputSpecBase {

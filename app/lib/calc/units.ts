@@ -7,9 +7,16 @@
  * `safe-expression.ts`). Functions that could change the instance or evaluate
  * arbitrary text are replaced by stubs that refuse, before anything else sees it.
  *
- * Conventions:
- * - A bare number takes the input's display unit: "48" for a voltage shown in V
- *   means 48 V; "4.7" for a capacitance shown in uF means 4.7 µF.
+ * Conventions (the Calculators page states them for users):
+ * - A dimensioned input needs its unit. A bare number ("4.7e-6", or a JSON
+ *   number) is refused with the readings spelled out ("4.7e-6 has no unit: did
+ *   you mean 4.7 µF?"), because guessing the unit silently changes magnitudes.
+ *   Only inputs documented as dimensionless (ma, mf, pf, hmax …) take bare numbers.
+ * - A unit typed in another case or with a habit of the trade ("20 KHz", "48 v",
+ *   "10 Ohm", "4.7 uf", "48 VDC", "23º", "60hz") is accepted when exactly one
+ *   unit of the input's dimension matches it ignoring case, and echoed as
+ *   understood; where two match (mV/MV, mHz/MHz) it is refused with both.
+ * - Apparent power (VA) is not real power: a power input refuses "1.5 kVA".
  * - Angles come out in degrees (radians are converted); temperatures in °C.
  * - Dimensionless inputs accept "80 %" as 0.8.
  */
@@ -167,7 +174,8 @@ export interface QuantitySpec {
   integer?: boolean;
 }
 
-export type QuantityParse = { ok: true; value: number } | { ok: false; message: string };
+/** `understood` is set when the text was read through a spelling variant: how it was read, to echo to the engineer. */
+export type QuantityParse = { ok: true; value: number; understood?: string } | { ok: false; message: string };
 
 /**
  * Rewrites the spellings engineers type into ones mathjs reads: the micro sign
@@ -279,6 +287,9 @@ export function quantityToSpec(quantity: Unit | number, spec: QuantitySpec): Qua
     if (!converted.ok) return converted;
     value = converted.value;
   } else {
+    if (spec.dimension === "power" && isApparentPower(quantity)) {
+      return { ok: false, message: `${spec.key}: ${describe(quantity)} is an apparent power (VA); this input is real power in W — give P = S·pf, e.g. ${formatQuantity(quantity.toNumber("VA") * 0.9, "W", { digits: 3, trimZeros: true })} for pf 0.9` };
+    }
     if (dimensionOf(quantity) !== spec.dimension) {
       return { ok: false, message: `${spec.key} must be ${dimensionNoun(spec.dimension)}; got ${describe(quantity)}` };
     }
@@ -288,14 +299,75 @@ export function quantityToSpec(quantity: Unit | number, spec: QuantitySpec): Qua
   return problem ? { ok: false, message: problem } : { ok: true, value: Object.is(value, -0) ? 0 : value };
 }
 
-/** A bare number in the spec's display unit ("%" counts as a hundredth). */
+function isApparentPower(quantity: Unit): boolean {
+  return quantity.units.length === 1 && ["VA", "VAR"].includes(quantity.units[0]!.unit.name);
+}
+
+/**
+ * A bare number: a pure number for dimensionless inputs ("%" display counts as a
+ * hundredth); refused for any other dimension, naming the readings it could have.
+ */
 function bareNumberToSi(number: number, spec: QuantitySpec): QuantityParse {
   if (spec.dimension === "dimensionless") {
     return { ok: true, value: spec.displayUnit === "%" ? number / 100 : number };
   }
   if (!Number.isFinite(number)) return { ok: true, value: number };
-  const display = normaliseUnitText(spec.displayUnit || SI_UNIT[spec.dimension]);
-  return { ok: true, value: toSi(instance.unit(number, display), spec.dimension) };
+  return { ok: false, message: bareNumberMessage(number, spec) };
+}
+
+/** "c: 4.7e-6 has no unit: did you mean 4.7 µF? write the unit" — the SI reading, and the display-unit reading when it differs and is in range. */
+export function bareNumberMessage(number: number, spec: QuantitySpec): string {
+  const unit = SI_UNIT[spec.dimension];
+  const show = (v: number) => formatQuantity(v, unit, { digits: 6, trimZeros: true });
+  const readings = [number];
+  const display = normaliseUnitText(spec.displayUnit || unit);
+  if (display !== unit) readings.push(toSi(instance.unit(number, display), spec.dimension));
+  const inRange = readings.filter((v) => checkRange(v, spec) === undefined);
+  const offered = [...new Set((inRange.length > 0 ? inRange : readings.slice(0, 1)).map(show))];
+  return `${spec.key}: ${formatQuantity(number, "", { digits: 15, trimZeros: true })} has no unit: did you mean ${offered.join(" or ")}? Write the unit (only pure numbers such as ma or pf are typed bare)`;
+}
+
+/** The SI unit each dimension's variants are matched against, as mathjs spells it. */
+const VARIANT_BASES: Partial<Record<Dimension, string>> = {
+  voltage: "V",
+  current: "A",
+  frequency: "Hz",
+  capacitance: "F",
+  inductance: "H",
+  resistance: "ohm",
+  power: "W",
+  energy: "J",
+  time: "s",
+};
+const VARIANT_PREFIXES = ["p", "n", "u", "m", "", "k", "M", "G"];
+
+/**
+ * Reads "20 KHz", "48 v", "10 Ohm", "4.7 uf", "48 VDC", "23º", "60hz": the units of
+ * the input's dimension that match the typed unit ignoring case. One match is
+ * read (and said); two (milli or mega: "mv", "MHZ") are refused with both; none
+ * gives undefined so the caller's own message stands.
+ */
+function readUnitVariant(cleaned: string, spec: QuantitySpec): QuantityParse | undefined {
+  const match = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?)\s*(.+)$/i.exec(cleaned.replace(/\u00ba/g, "deg"));
+  if (!match) return undefined;
+  const [, numberText, typedUnit] = match as unknown as [string, string, string];
+  let unitText = typedUnit.trim();
+  if (spec.dimension === "voltage") unitText = unitText.replace(/\s*dc$/i, "");
+  let candidates: string[];
+  if (spec.dimension === "angle") candidates = /^deg$/i.test(unitText) ? ["deg"] : [];
+  else {
+    const base = VARIANT_BASES[spec.dimension];
+    if (!base) return undefined;
+    candidates = VARIANT_PREFIXES.map((p) => p + base).filter((c) => c.toLowerCase() === unitText.toLowerCase());
+  }
+  if (candidates.length === 0) return undefined;
+  if (candidates.length > 1) {
+    return { ok: false, message: `${spec.key}: "${typedUnit}" could be ${candidates.join(" or ")} (milli or mega); write the unit exactly` };
+  }
+  const parsed = quantityToSpec(instance.unit(`${numberText} ${candidates[0]}`), spec);
+  if (!parsed.ok) return parsed;
+  const understood = formatQuantity(parsed.value, SI_UNIT[spec.dimension], { digits: 15, trimZeros: true });
+  return { ...parsed, understood: `${spec.key}: read "${cleaned}" as ${understood}` };
 }
 
 /**
@@ -329,9 +401,11 @@ export function parseQuantity(text: string | number, spec: QuantitySpec): Quanti
   try {
     quantity = instance.unit(cleaned);
   } catch {
-    return unreadable;
+    return readUnitVariant(cleaned, spec) ?? unreadable;
   }
   // "V" on its own reads as a valueless unit: the engineer forgot the number.
   if (quantity.value === null) return unreadable;
-  return quantityToSpec(quantity, spec);
+  const parsed = quantityToSpec(quantity, spec);
+  if (!parsed.ok && dimensionOf(quantity) !== spec.dimension) return readUnitVariant(cleaned, spec) ?? parsed;
+  return parsed;
 }

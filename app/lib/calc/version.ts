@@ -4,4 +4,4 @@
  * major for changed meaning of an input or output, minor for new calculators or
  * outputs, patch for corrected numbers or wording of warnings.
  */
-export const ENGINE_VERSION = "1.1.0";
+export const ENGINE_VERSION = "2.0.0";

@@ -102,8 +102,8 @@ describe("spelling never changes a result", () => {
           { l: `${spell(l, 0)} H`, c: `${spell(c, 0)} F`, rLoad: `${spell(r, 0)} ohm`, fsw: `${spell(fsw, 0)} Hz` },
           { l: `${spell(l, 3)} mH`, c: `${spell(c, 6)} uF`, rLoad: `${spell(r, 0)} Ω`, fsw: `${spell(fsw, -3)} kHz` },
           { l: `${spell(l, 6)}µH`, c: `${spell(c, 9)} nF`, rLoad: `${spell(r, -3)} kΩ`, fsw: `${spell(fsw, -3)}kHz` },
-          // Bare numbers take the display units: ohm for rLoad, kHz for fsw.
-          { l: `${spell(l, 6)} μH`, c: `${spell(c, 6)}μF`, rLoad: spell(r, 0), fsw: spell(fsw, -3) },
+          // Case variants with one reading for the dimension are read as that unit (issue #16 item 8).
+          { l: `${spell(l, 6)} uh`, c: `${spell(c, 6)} uf`, rLoad: `${spell(r, 0)} Ohm`, fsw: `${spell(fsw, -3)} KHz` },
         ];
         const outcomes = spellings.map((inputs) => evaluateCalculator("lc-filter", inputs));
         const first = outcomes[0]!;

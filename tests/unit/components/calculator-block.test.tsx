@@ -217,15 +217,16 @@ describe("a harmonic-limits block", () => {
   });
 
   // The 4.0 % limit for the 3rd is Sinewright's IEEE Std 1547-2018 §7.3 row: from memory, unverified.
-  it("within limits of a table entered from memory: says Pass and flags it unverified", () => {
+  it("within limits of a table entered from memory: gives no verdict, and the rows are informative only (issue #13)", () => {
     const html = renderBlock(
-      [{ id: "hl2", calculator: "harmonic-limits", inputs: { standard: "ieee1547", spectrum: '[{"n":3,"value":2}]' } }],
+      [{ id: "hl2", calculator: "harmonic-limits", inputs: { standard: "ieee1547", listedTo: "50", spectrum: '[{"n":3,"value":2}]' } }],
       "hl2",
       false,
     );
     const text = textOf(html);
-    expect(text).toMatch(/Verdict \(estimate\): Pass — the one order listed is within its limit; THD within its limit\./);
-    expect(text).toMatch(/3 Pass unverified 2\.00 % 4\.00 % 2\.00 %/);
+    expect(text).toMatch(/No verdict — these limits were entered from memory and are unverified: the comparison below is informative only\./);
+    expect(text).not.toMatch(/Verdict \(estimate\): Pass/);
+    expect(text).toMatch(/3 within \(informative\) 2\.00 % 4\.00 % 2\.00 %/);
     expect(text).toContain("Unverified: entered from memory");
   });
 });
@@ -290,7 +291,7 @@ describe("every calculator in the catalogue", () => {
     "lc-filter": { l: "2.2 mH", c: "10 uF", fsw: "20 kHz" },
     "dc-link": { p: "1.5 kW", vdc: "400 V", rippleVpp: "8 V" },
     "switch-stress": { vdc: "400 V", p: "3 kW", fsw: "20 kHz", rdsOn: "40 mohm", tr: "20 ns", tf: "20 ns", rthJa: "20 K/W", vRated: "650 V" },
-    "harmonic-limits": { busVoltage: "400 V", spectrum: '[{"n":3,"value":2}]' },
+    "harmonic-limits": { busVoltage: "400 V", listedTo: "50", spectrum: '[{"n":3,"value":2}]' },
     formula: { expr: "2 * 3" },
   };
   for (const calculator of calculators) {

@@ -182,7 +182,7 @@ describe("new blocks for the palette", () => {
   it("write a block with each default, required inputs empty and optional ones left out", () => {
     expect(blockSnippet("quasi-square", "qs1")).toBe('<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" f="50 Hz" hmax="49" />');
     expect(blockSnippet("half-bridge", "hb2")).toBe('<HalfBridge id="hb2" vdc="48 V" mode="split-capacitor" />');
-    expect(blockSnippet("dc-link", "dc1")).toBe('<DcLink id="dc1" p="" vdc="" f="50 Hz" rippleVpp="" />');
+    expect(blockSnippet("dc-link", "dc1")).toBe('<DcLink id="dc1" p="" pf="1" vdc="" f="50 Hz" rippleVpp="" />');
     expect(() => blockSnippet("quasi-square", "1x")).toThrow(/starts with a letter/);
   });
 

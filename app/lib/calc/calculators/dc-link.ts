@@ -10,8 +10,13 @@
  * Assumes a stiff source that supplies only the average current, Vdc ≫ ΔV_pp,
  * and no switching-frequency ripple (that adds to the capacitor's RMS current).
  *
- * Source: derived from the instantaneous power of a single-phase load at unity
- * power factor (no single published table; the result is standard).
+ * With power factor pf = cos φ (v = √2V·sin ωt, i = √2I·sin(ωt − φ)):
+ *   p(t) = VI·cos φ − VI·cos(2ωt − φ),
+ * so the part at 2ω has amplitude S = VI = P/pf, the apparent power: the ripple,
+ * the capacitance and the ripple current all follow S, not P.
+ *
+ * Source: derived from the instantaneous power of a single-phase load (no single
+ * published table; the result is standard).
  */
 import { scalar } from "../format";
 import { fieldError } from "../errors";
@@ -28,6 +33,19 @@ const pInput: QuantityInputSpec = {
   min: 0,
   minExclusive: true,
   max: 1e9,
+};
+
+const pfInput: QuantityInputSpec = {
+  key: "pf",
+  label: "Load power factor",
+  description: "Displacement power factor cos φ of the load, 0 to 1. The second-harmonic ripple follows the apparent power P/pf.",
+  kind: "quantity",
+  dimension: "dimensionless",
+  displayUnit: "",
+  min: 0,
+  minExclusive: true,
+  max: 1,
+  default: "1",
 };
 
 const vdcInput = dcLinkVoltageInput(undefined, "Mean DC-link voltage.");
@@ -56,24 +74,25 @@ export const calculator: Calculator = {
   description:
     "A single-phase inverter draws its power in pulses at twice the output frequency. Gives the DC-link capacitance that keeps " +
     "that ripple within the allowed peak-to-peak voltage, and the RMS ripple current the capacitor must carry.",
-  inputs: [pInput, vdcInput, fInput, rippleInput],
+  inputs: [pInput, pfInput, vdcInput, fInput, rippleInput],
   outputs: [
     { key: "c", label: "DC-link capacitance", kind: "scalar", unit: "F" },
     { key: "iRippleRms", label: "Capacitor ripple current (RMS)", kind: "scalar", unit: "A" },
     { key: "rippleFrequency", label: "Ripple frequency", kind: "scalar", unit: "Hz" },
+    { key: "apparentPower", label: "Apparent power S = P/pf", kind: "scalar", unit: "VA", description: "The ripple follows this, not the real power." },
   ],
   formulas: [
-    { label: "Instantaneous power", latex: String.raw`p(t) = P\,(1 - \cos 2\omega t)` },
-    { label: "Capacitance", latex: String.raw`C = \frac{P}{2\pi f\,V_{dc}\,\Delta V_{pp}}` },
-    { label: "Ripple current", latex: String.raw`I_{C,rms} \approx \frac{P}{\sqrt{2}\,V_{dc}}` },
+    { label: "Instantaneous power", latex: String.raw`p(t) = S\cos\varphi - S\cos(2\omega t - \varphi),\quad S = P/pf` },
+    { label: "Capacitance", latex: String.raw`C = \frac{S}{2\pi f\,V_{dc}\,\Delta V_{pp}}` },
+    { label: "Ripple current", latex: String.raw`I_{C,rms} \approx \frac{S}{\sqrt{2}\,V_{dc}}` },
   ],
   conventions: [
-    "Single-phase output at unity power factor; the ripple is the second harmonic of the output frequency.",
+    "Single-phase output; the ripple is the second harmonic of the output frequency and follows the apparent power S = P/pf (pf 1 by default).",
     "The source supplies only the average current; switching-frequency ripple is not included and adds to the capacitor's RMS current.",
     "Vdc is assumed nearly constant (ripple small compared with Vdc).",
   ],
   sources: [
-    "Derived from the instantaneous power of a single-phase load at unity power factor, p(t) = P(1 − cos 2ωt) — derived.",
+    "Derived from the instantaneous power of a single-phase load, p(t) = S·cos φ − S·cos(2ωt − φ) — derived.",
   ],
   cautions: [
     LETHAL_VOLTAGE_CAUTION,
@@ -81,20 +100,25 @@ export const calculator: Calculator = {
   ],
   compute(inputs) {
     const p = readQuantity(inputs, pInput);
+    const pf = readQuantity(inputs, pfInput);
+    const apparent = p / pf;
     const vdc = readQuantity(inputs, vdcInput);
     const f = readQuantity(inputs, fInput);
     const rippleVpp = readQuantity(inputs, rippleInput);
     if (rippleVpp >= vdc) {
       throw fieldError("rippleVpp", `rippleVpp must be below vdc (${scalar(vdc, "V").display}); got ${scalar(rippleVpp, "V").display}`);
     }
-    const warnings: string[] = [];
+    const warnings: string[] = [
+      `The ripple follows the apparent power S = P/pf = ${scalar(apparent, "VA").display} (pf ${pf}): a load below unity power factor needs more capacitance and ripple current than its real power suggests.`,
+    ];
     if (rippleVpp > LARGE_RIPPLE_RATIO * vdc) {
       warnings.push(`The ripple is ${scalar((rippleVpp / vdc) * 100, "%").display} of Vdc: the constant-Vdc approximation loosens above about 10 % (common practice); check by simulation.`);
     }
     return {
       results: {
-        c: scalar(p / (2 * Math.PI * f * vdc * rippleVpp), "F"),
-        iRippleRms: scalar(p / (Math.SQRT2 * vdc), "A"),
+        c: scalar(apparent / (2 * Math.PI * f * vdc * rippleVpp), "F"),
+        iRippleRms: scalar(apparent / (Math.SQRT2 * vdc), "A"),
+        apparentPower: scalar(apparent, "VA"),
         rippleFrequency: scalar(2 * f, "Hz"),
       },
       warnings,

@@ -39,7 +39,9 @@ export const calculator: Calculator = {
   formulas: [],
   conventions: [
     "Refer to another block's output as blockId.output, e.g. qs1.v1Rms.",
-    "Percent results become fractions in arithmetic (48.3 % → 0.483); decibel results are used as their dB number.",
+    "Percent results become fractions in arithmetic (48.3 % → 0.483) but a percentage scaled by pure numbers stays a percentage (qs1.thd * 1.1 → 53.1 %); decibel results are used as their dB number.",
+    "The difference of two temperatures is a temperature difference, shown in K.",
+    "Adding or subtracting quantities of different kinds (48 V + 2 A) is refused with the two quantities named.",
     "Angles in trigonometric functions need a unit (sin(30 deg)); a bare number is taken as radians.",
     "Allowed functions: sqrt, abs, sin, cos, tan, asin, acos, atan, exp, log, log10, min, max, round, floor, ceil, pow.",
   ],
@@ -58,10 +60,16 @@ export const calculator: Calculator = {
     }
 
     const quantity = outcome.quantity;
+    const pure = typeof quantity === "number" ? quantity : quantity.units.length === 0 ? quantity.toNumber() : undefined;
+    // A percentage scaled by pure numbers stays a percentage (qs1.thd * 1.1 → 31.9 %, not 0.319).
+    if (pure !== undefined) return { results: { value: outcome.percent ? scalar(pure * 100, "%") : scalar(pure, "") }, warnings: [] };
     if (typeof quantity === "number") return { results: { value: scalar(quantity, "") }, warnings: [] };
-    if (quantity.units.length === 0) return { results: { value: scalar(quantity.toNumber(), "") }, warnings: [] };
 
     const dimension = dimensionOf(quantity);
+    // A difference of temperatures comes back in kelvin: keep it a temperature difference, not a reading in °C.
+    if (dimension === "temperature" && !outcome.targetUnit && quantity.units[0]?.unit.name === "K") {
+      return { results: { value: scalar(quantity.toNumber("K"), "K") }, warnings: [] };
+    }
     if (outcome.targetUnit) {
       const shown = quantity.toNumber(outcome.targetUnit);
       const siUnit = dimension ? SI_UNIT[dimension] : quantity.formatUnits();

@@ -16,6 +16,18 @@
  * here they are compared with % of the spectrum's fundamental. That equals TDD at
  * full load and is conservative below it (the fundamental is then smaller than IL).
  *
+ * No verdict is given (`pass` is left out, and a note says why) when:
+ * - the spectrum stops short of the table's range (IEEE 519: order 50; IEC
+ *   61000-3-2: order 40) — a truncated spectrum under-counts THD; a referenced
+ *   spectrum reaches its source's hmax, a typed one its highest listed order or
+ *   `listedTo`; this is refused as a field error saying what to raise;
+ * - the spectrum has interharmonics (non-integer orders, e.g. from an
+ *   asynchronous carrier): the tables do not limit them; they are listed and
+ *   totalled on their own, never folded into THD or left unmentioned;
+ * - the table's rows are from memory (IEEE 1547): the rows are informative only.
+ * A voltage spectrum given to a current table (or the reverse) is refused by
+ * dimension: current harmonics depend on the load.
+ *
  * Every verdict is an engineering estimate: compliance is established by
  * accredited testing and the utility's interconnection rules.
  */
@@ -46,7 +58,7 @@ const standardInput: ChoiceInputSpec = {
     { value: "ieee519-voltage", label: "IEEE Std 519-2014 Table 1 — voltage at the PCC" },
     { value: "ieee519-current", label: "IEEE Std 519-2014 Table 2 — current, 120 V–69 kV" },
     { value: "iec61000-3-2-a", label: "IEC 61000-3-2 Class A — equipment ≤ 16 A per phase" },
-    { value: "ieee1547", label: "IEEE Std 1547-2018 §7.3 — DER current (from memory, unverified)" },
+    { value: "ieee1547", label: "IEEE Std 1547-2018 §7.3 — DER current (from memory, unverified: informative only, no verdict)" },
   ],
   default: "ieee519-voltage",
 };
@@ -77,6 +89,20 @@ const iscIlInput: QuantityInputSpec = {
   optional: true,
 };
 
+const listedToInput: QuantityInputSpec = {
+  key: "listedTo",
+  label: "Spectrum complete to order",
+  description:
+    "For a typed spectrum: the highest order it accounts for, orders not listed up to it being zero (default: the highest order listed). A referenced spectrum reaches its source block's hmax.",
+  kind: "quantity",
+  dimension: "dimensionless",
+  displayUnit: "",
+  min: 1,
+  max: 1000,
+  integer: true,
+  optional: true,
+};
+
 const spectrumInput: SpectrumInputSpec = {
   key: "spectrum",
   label: "Harmonic spectrum",
@@ -85,7 +111,22 @@ const spectrumInput: SpectrumInputSpec = {
   kind: "spectrum",
   valueUnit: "%",
   valueUnitByChoice: { input: "standard", units: { "iec61000-3-2-a": "A" } },
+  quantityByChoice: {
+    input: "standard",
+    quantities: { "ieee519-voltage": "voltage", "ieee519-current": "current", "iec61000-3-2-a": "current", ieee1547: "current" },
+  },
+  coverageInput: "listedTo",
 };
+
+/** Orders closer than this to an integer are harmonics; the rest are interharmonics. */
+const ORDER_TOLERANCE = 1e-9;
+
+const isHarmonicOrder = (n: number) => Math.abs(n - Math.round(n)) <= ORDER_TOLERANCE;
+
+/** An order as read: 22.5, or 12.333 for a line between harmonics. */
+function formatOrder(n: number): string {
+  return String(Number(n.toFixed(3)));
+}
 
 function sourceOf(origin: TableOrigin, note?: string): StandardSource {
   const source: StandardSource = { standard: origin.standard, edition: origin.edition, table: origin.table, status: origin.status };
@@ -108,11 +149,12 @@ export const calculator: Calculator = {
     "Compares each harmonic of a spectrum — typed, or taken from another block — with the individual limits of a published " +
     "table, computes the spectrum's THD against the table's total limit where it has one, and gives a pass/fail estimate " +
     "with the standard, edition and table it used.",
-  inputs: [standardInput, busVoltageInput, iscIlInput, spectrumInput],
+  inputs: [standardInput, busVoltageInput, iscIlInput, spectrumInput, listedToInput],
   outputs: [
     { key: "rows", label: "Harmonic by harmonic", kind: "limitRows" },
-    { key: "pass", label: "Within limits (estimate)", kind: "boolean" },
-    { key: "thd", label: "THD of the spectrum", kind: "scalar", unit: "%" },
+    { key: "pass", label: "Within limits (estimate)", kind: "boolean", description: "Left out when no verdict can be given (interharmonics, or limits from memory); the notes say why." },
+    { key: "thd", label: "THD of the spectrum", kind: "scalar", unit: "%", description: "Harmonic orders 2 to the table's highest; interharmonics and DC excluded." },
+    { key: "interharmonics", label: "Interharmonics, root-sum-square", kind: "scalar", unit: "%", description: "Lines at non-integer orders, which the tables do not limit; in % of the fundamental (IEEE) or amperes (IEC)." },
     { key: "thdLimit", label: "Total distortion limit", kind: "scalar", unit: "%" },
     { key: "source", label: "Limit table used", kind: "source" },
   ],
@@ -125,6 +167,10 @@ export const calculator: Calculator = {
     "IEEE values are in % of the fundamental; IEC Class A values in amperes RMS.",
     "IEEE 519 current limits are defined against the maximum demand current IL (TDD); this check uses the spectrum's fundamental, exact at full load and conservative below it.",
     "Orders above the table's range (50 for IEEE, 40 for IEC) are not checked and not counted in THD.",
+    "The spectrum must reach the table's highest order (50 for IEEE, 40 for IEC), else no verdict is given: a referenced spectrum reaches its source's hmax; a typed one its highest listed order, or listedTo.",
+    "THD counts harmonic orders 2 and above only (IEEE Std 519-2014 and IEC 61000-3-2 define it so); DC and interharmonics are reported on their own.",
+    "Lines at non-integer orders are interharmonics: listed and totalled separately, never given an odd- or even-harmonic limit; no verdict is given while any is present.",
+    "IEEE Std 1547 rows are from memory and unverified: they are shown as informative only, with no pass/fail verdict.",
     "A negative margin means the harmonic exceeds its limit.",
   ],
   sources: [
@@ -142,7 +188,10 @@ export const calculator: Calculator = {
     if (!Array.isArray(lines) || !lines.every((l) => typeof l === "object" && l !== null && Number.isFinite((l as SpectrumLine).n) && Number.isFinite((l as SpectrumLine).value))) {
       throw fieldError("spectrum", "spectrum must be a list of harmonics {n, value}");
     }
-    const spectrum = [...(lines as SpectrumLine[])].sort((a, b) => a.n - b.n);
+    const sorted = [...(lines as SpectrumLine[])].sort((a, b) => a.n - b.n);
+    const spectrum = sorted.filter((l) => isHarmonicOrder(l.n)).map((l) => ({ n: Math.round(l.n), value: l.value }));
+    const interharmonics = sorted.filter((l) => !isHarmonicOrder(l.n) && l.value > 0);
+    const listedTo = inputs.listedTo === undefined ? undefined : readQuantity(inputs, listedToInput);
     const warnings: string[] = [VERDICT_NOTE];
 
     let limitAt: (n: number) => number | undefined;
@@ -193,8 +242,10 @@ export const calculator: Calculator = {
         limitAt = (n) => tableLimitAt(IEEE1547_ODD_LIMITS, n)?.limit;
         highest = IEEE1547_HIGHEST_ORDER;
         thdLimit = IEEE1547_TRD;
-        source = sourceOf(IEEE1547_ORIGIN, "entered from memory — unverified; odd orders only; TRD 5.0 %");
-        warnings.push("UNVERIFIED: the IEEE Std 1547-2018 limits were entered from memory and are not yet confirmed against the standard.");
+        source = sourceOf(IEEE1547_ORIGIN, "entered from memory — unverified; informative only, no verdict; odd orders only; TRD 5.0 %");
+        warnings.push(
+          "Informative only, no verdict: the IEEE Std 1547-2018 limits were entered from memory and are not yet confirmed against the standard. Check the spectrum against the standard's own table.",
+        );
         if (spectrum.some((l) => l.n % 2 === 0 && l.n <= highest && l.value > 0)) {
           warnings.push("Even harmonics are not checked against IEEE Std 1547-2018 here: their limits are not tabulated.");
         }
@@ -202,12 +253,28 @@ export const calculator: Calculator = {
       }
     }
 
+    const reach = listedTo ?? spectrum.reduce((top, l) => Math.max(top, l.n), 1);
+    if (reach < highest) {
+      throw fieldError(
+        "spectrum",
+        `the spectrum reaches order ${reach}, but ${source.standard}-${source.edition} limits orders up to ${highest}: a verdict would miss any distortion above order ${reach}. ` +
+          `Raise the source block's hmax to ${highest} or more; for a typed spectrum, list the orders to ${highest} (0 where there is none), or set listedTo = ${highest} if the orders not listed are zero.`,
+      );
+    }
+
     const rows: LimitRow[] = [];
+    const unchecked: number[] = [];
     for (const { n, value } of spectrum) {
       if (n < 2 || n > highest) continue;
       const limit = limitAt(n);
-      if (limit === undefined) continue;
+      if (limit === undefined) {
+        if (value > 0) unchecked.push(n);
+        continue;
+      }
       rows.push({ n, value, limit, pass: value <= limit, margin: limit - value, unit });
+    }
+    if (unchecked.length > 0 && standard !== "ieee1547") {
+      warnings.push(`Order(s) ${unchecked.join(", ")} have no limit in this table and are not checked (they count in the THD).`);
     }
     const beyond = spectrum.filter((l) => l.n > highest && l.value > 0);
     if (beyond.length > 0) {
@@ -227,9 +294,21 @@ export const calculator: Calculator = {
     if (thd !== undefined) results.thd = scalar(thd, "%");
     if (thdLimit !== undefined) results.thdLimit = scalar(thdLimit, "%");
 
+    if (interharmonics.length > 0) {
+      const total = Math.sqrt(interharmonics.reduce((sum, l) => sum + l.value * l.value, 0));
+      results.interharmonics = scalar(total, unit);
+      const largest = interharmonics.reduce((top, l) => (l.value > top.value ? l : top));
+      const shown = interharmonics.slice(0, 8).map((l) => formatOrder(l.n)).join(", ");
+      warnings.push(
+        `No verdict: the spectrum has ${interharmonics.length} interharmonic line(s) at non-integer orders (${shown}${interharmonics.length > 8 ? " …" : ""}; largest ${scalar(largest.value, unit).display} at order ${formatOrder(largest.n)}). ` +
+          `${source.standard} ${source.table} sets no limits for them: they are not in the rows or the THD (total ${scalar(total, unit).display}). Judge them separately, or use an integer carrier ratio.`,
+      );
+    }
+
     const totalPass = thd === undefined || thdLimit === undefined || thd <= thdLimit;
-    results.pass = rows.every((r) => r.pass) && totalPass;
     if (!totalPass) warnings.push(`THD ${scalar(thd!, "%").display} exceeds the limit of ${scalar(thdLimit!, "%").display}.`);
+    const informative = source.status === "memory";
+    if (!informative && interharmonics.length === 0) results.pass = rows.every((r) => r.pass) && totalPass;
     return { results, warnings };
   },
 };

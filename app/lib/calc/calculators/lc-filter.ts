@@ -93,6 +93,9 @@ export function lcFilterGain(omega: number, l: number, c: number, rLoad?: number
 
 const toDb = (gain: number) => 20 * Math.log10(gain);
 
+/** |1 − (f/f0)²| below this counts as "at f0" for an unloaded filter: the gain would exceed 180 dB, which only rounding can produce. */
+const UNBOUNDED_BAND = 1e-9;
+
 export const calculator: Calculator = {
   id: "lc-filter",
   title: "LC output filter",
@@ -146,12 +149,21 @@ export const calculator: Calculator = {
     const gainAt = (frequency: number) => lcFilterGain(2 * Math.PI * frequency, l, c, rLoad);
     const warnings: string[] = [];
 
-    const results: Results = {
-      f0: scalar(f0, "Hz"),
-      z0: scalar(z0, "ohm"),
-      gainFswDb: scalar(toDb(gainAt(fsw)), "dB"),
-      gainF1Db: scalar(toDb(gainAt(f)), "dB"),
-    };
+    // Unloaded, |H| = 1/|1 − ω²LC| has no bound at f0; within rounding of f0 the number is noise (a +287 dB "result"), so say so in words.
+    const atUndampedCorner = (frequency: number) => rLoad === undefined && Math.abs(1 - (frequency / f0) ** 2) < UNBOUNDED_BAND;
+    const results: Results = { f0: scalar(f0, "Hz"), z0: scalar(z0, "ohm") };
+    for (const [key, frequency, name] of [
+      ["gainFswDb", fsw, "the switching frequency"],
+      ["gainF1Db", f, "the fundamental"],
+    ] as const) {
+      if (atUndampedCorner(frequency)) {
+        warnings.push(
+          `The gain at ${name} (${scalar(frequency, "Hz").display}) is unbounded and not reported: it sits at the corner f0 of an unloaded filter, which has no damping to limit the resonance.`,
+        );
+      } else {
+        results[key] = scalar(toDb(gainAt(frequency)), "dB");
+      }
+    }
 
     if (rLoad === undefined) {
       warnings.push("Unloaded filter: there is no damping, so Q is unbounded and not reported; the response peaks without limit at f0.");
@@ -166,7 +178,9 @@ export const calculator: Calculator = {
 
     if (f0 > fsw / 10) {
       warnings.push(
-        `The corner (${scalar(f0, "Hz").display}) is not a decade below the switching frequency (${scalar(fsw, "Hz").display}); attenuation there is only ${scalar(-toDb(gainAt(fsw)), "dB").display} (common practice: f0 ≤ fsw/10).`,
+        `The corner (${scalar(f0, "Hz").display}) is not a decade below the switching frequency (${scalar(fsw, "Hz").display}); ` +
+          (atUndampedCorner(fsw) ? "there is no attenuation there at all" : `attenuation there is only ${scalar(-toDb(gainAt(fsw)), "dB").display}`) +
+          " (common practice: f0 ≤ fsw/10).",
       );
     }
     if (f0 <= f) {
@@ -181,8 +195,8 @@ export const calculator: Calculator = {
     for (let i = 0; i < BODE_POINTS; i++) {
       const frequency = low * (high / low) ** (i / (BODE_POINTS - 1));
       const gainDb = toDb(gainAt(frequency));
-      // An unloaded filter evaluated exactly at f0 is infinite: leave that point out of the plot.
-      if (Number.isFinite(gainDb)) bode.push({ f: frequency, gainDb });
+      // An unloaded filter at (or within rounding of) f0 is unbounded: leave that point out of the plot.
+      if (Number.isFinite(gainDb) && !atUndampedCorner(frequency)) bode.push({ f: frequency, gainDb });
     }
     results.bode = bode;
     return { results, warnings };

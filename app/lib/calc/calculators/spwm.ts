@@ -311,7 +311,8 @@ export const calculator: Calculator = {
     { key: "v1Peak", label: "Fundamental peak", kind: "scalar", unit: "V" },
     { key: "v1Rms", label: "Fundamental RMS", kind: "scalar", unit: "V" },
     { key: "vrms", label: "Output RMS (all components)", kind: "scalar", unit: "V" },
-    { key: "thd", label: "THD, all components", kind: "scalar", unit: "%" },
+    { key: "thd", label: "THD, all harmonics", kind: "scalar", unit: "%", description: "Every harmonic of order 2 and above; DC excluded (shown on its own)." },
+    { key: "dc", label: "DC offset", kind: "scalar", unit: "V", description: "Mean of the output; non-zero only without half-wave symmetry (e.g. bipolar with even mf)." },
     { key: "thd40", label: "THD, orders 2–40", kind: "scalar", unit: "%" },
     { key: "thd50", label: "THD, orders 2–50", kind: "scalar", unit: "%" },
     { key: "wthd", label: "Weighted THD", kind: "scalar", unit: "%" },
@@ -336,7 +337,7 @@ export const calculator: Calculator = {
     "Naturally sampled (analogue comparison) sine-triangle PWM; synchronous carrier with a valley at the reference's peak (90°). Regular sampling and dead time are not modelled.",
     "Half bridge: output from the leg to the DC midpoint, ±Vdc/2. Full bridge bipolar: ±Vdc. Full bridge unipolar: +Vdc, 0, −Vdc.",
     "Harmonic percentages are of the fundamental (THD_F, as in IEEE Std 519).",
-    "thd counts every component except the fundamental (exact, from the RMS; it includes any DC offset, which only a non-odd mf can give). thd40 and thd50 count orders up to 40 and 50, as harmonic standards do: with mf above about 50 the switching harmonics are all above that range, so these come out far lower than thd. None depends on hmax.",
+    "thd counts every harmonic of order 2 and above (exact, from the RMS with the fundamental and DC removed): IEEE Std 519-2014 and IEC 61000-3-2 define THD over harmonic orders, so a DC offset (which only a non-odd mf gives) is shown on its own as dc. thd40 and thd50 count orders up to 40 and 50, as harmonic standards do: with mf above about 50 the switching harmonics are all above that range, so these come out far lower than thd. None depends on hmax.",
     "Weighted THD divides each harmonic by its order (Holmes & Lipo's definition), a proxy for the ripple current an inductive load draws; for integer mf it is exact (no truncation).",
     "mf not an integer: lines are listed at non-integer orders (frequency ÷ output frequency), including any that fall below the fundamental.",
   ],
@@ -376,6 +377,7 @@ export const calculator: Calculator = {
     }
 
     let fundamentalPeak: number;
+    let dc = 0;
     let vrms: number;
     let wthd: number;
     let lines: OrderPeak[];
@@ -408,7 +410,9 @@ export const calculator: Calculator = {
         }
       }
       fundamentalPeak = normalizedPeaks[1]! * scale;
-      vrms = steppedCycleMoments(wave).rms * scale;
+      const moments = steppedCycleMoments(wave);
+      vrms = moments.rms * scale;
+      dc = moments.mean * scale;
       wthd = steppedCycleWeightedThd(wave, normalizedPeaks[1]!);
       const evenOrders = scheme === "bipolar" && ratio % 2 === 0;
       for (let h = 1; h <= highestOrder; h++) normalizedPeaks[h]! *= scale;
@@ -428,6 +432,8 @@ export const calculator: Calculator = {
         else byOrder.set(key, { n: order, amplitude });
       });
       const fundamental = byOrder.get(1e9)?.amplitude ?? ma;
+      // Lines meet order 0 only when m·mf is a whole number: a DC term, reported on its own.
+      dc = (byOrder.get(0)?.amplitude ?? 0) * scale;
       fundamentalPeak = Math.abs(fundamental) * scale;
       const all = [...byOrder.values()]
         .filter((line) => line.n !== 1 && line.n > 0)
@@ -447,12 +453,18 @@ export const calculator: Calculator = {
     }
 
     const fundamentalRms = fundamentalPeak / Math.SQRT2;
+    // THD over harmonic orders ≥ 2: the RMS without the fundamental and without DC.
+    const harmonicRms = Math.sqrt(Math.max(0, vrms * vrms - dc * dc));
+    if (Math.abs(dc) > 1e-9 * fundamentalPeak) {
+      warnings.push(`The output has a DC offset of ${scalar(dc, "V").display} (${scalar((100 * Math.abs(dc)) / fundamentalRms, "%").display} of the fundamental RMS); it is shown as dc and not counted in THD, which covers harmonic orders 2 and above.`);
+    }
     return {
       results: {
         v1Peak: scalar(fundamentalPeak, "V"),
         v1Rms: scalar(fundamentalRms, "V"),
         vrms: scalar(vrms, "V"),
-        thd: scalar(thdFromRms(vrms, fundamentalRms), "%"),
+        thd: scalar(thdFromRms(harmonicRms, fundamentalRms), "%"),
+        dc: scalar(dc, "V"),
         thd40: scalar(thdUpTo(fundamentalPeak, lines, 40), "%"),
         thd50: scalar(thdUpTo(fundamentalPeak, lines, 50), "%"),
         wthd: scalar(wthd, "%"),

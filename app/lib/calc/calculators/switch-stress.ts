@@ -9,7 +9,19 @@
  * Per switch position (the transistor with its antiparallel diode), which carries
  * one half-sine of the load current per cycle:
  *   I_rms = Î/2,  I_avg = Î/π,  V_block = Vdc.
- * Conduction: MOSFET P = I_rms²·R_DS(on); IGBT P = V_CE(sat)·I_avg (constant drop).
+ * Conduction, SPWM duty-weighted (Mohan, Undeland & Robbins, 3rd ed., ch. 8
+ * averaging): with reference ma·sin θ the upper transistor's duty is
+ * d = (1 + ma·sin θ)/2, and it carries the load current Î·sin(θ − φ) while that is
+ * positive; the antiparallel diode carries it for the rest, 1 − d. Averaging over
+ * the half cycle (derived, x = θ − φ, ∫₀^π sin x·sin(x + φ) dx = (π/2)·cos φ,
+ * ∫₀^π sin²x·sin(x + φ) dx = (4/3)·cos φ):
+ *   I_T,avg = Î·(1/(2π) + ma·cos φ/8),   I_T,rms² = Î²·(1/8 + ma·cos φ/(3π)),
+ *   I_D,avg = Î·(1/(2π) − ma·cos φ/8),   I_D,rms² = Î²·(1/8 − ma·cos φ/(3π)).
+ * IGBT: P_T = V_CE0·I_T,avg + r_CE·I_T,rms², P_D = V_F0·I_D,avg + r_D·I_D,rms².
+ * MOSFET: the channel conducts both ways (synchronous, dead time neglected), so
+ * P = R_DS(on)·(I_T,rms² + I_D,rms²) = R_DS(on)·Î²/4 — the half-sine I_rms² exactly.
+ * The old constant-drop figure V_CE·Î/π (all the half-sine charged to the
+ * transistor) is kept as pCondBound, labelled as an upper bound.
  * Switching, linearised edges averaged over the half-sine of current:
  *   P_sw = ½·Vdc·(Î/π)·(t_r + t_f)·f_sw,
  * or from datasheet energies scaled linearly from their test point:
@@ -17,8 +29,8 @@
  * Junction: T_j = T_a + R_th(j-a)·(P_cond + P_sw).
  * Voltage margin against the 80 % derating rule: (1 − V_block/(0.8·V_rated))·100 %.
  *
- * These are upper-bound simplifications: the whole half-cycle current is charged
- * to the transistor, though during PWM the opposite diode carries part of it.
+ * ma is Vout over the largest linear output (ma = 1) and cos φ is pf (taken as the
+ * displacement factor).
  *
  * Sources: Mohan, Undeland & Robbins, Power Electronics: Converters, Applications,
  * and Design, 3rd ed., ch. 8 (SPWM output: ma·Vdc, ma·Vdc/2, 0.612·ma·Vdc line to
@@ -75,7 +87,10 @@ const voutInput = quantity({
 });
 const fswInput = quantity({ key: "fsw", label: "Switching frequency", description: "PWM carrier frequency.", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e8 });
 const rdsOnInput = quantity({ key: "rdsOn", label: "R_DS(on)", description: "MOSFET on-resistance at the expected junction temperature.", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
-const vceSatInput = quantity({ key: "vceSat", label: "V_CE(sat)", description: "IGBT on-state voltage at rated current and the expected junction temperature.", dimension: "voltage", displayUnit: "V", min: 0, max: 100, optional: true });
+const vceSatInput = quantity({ key: "vceSat", label: "V_CE0 (IGBT threshold)", description: "IGBT on-state threshold voltage V_CE0 of the linear model V_CE = V_CE0 + r_CE·i, at the expected junction temperature. With no rCe, give V_CE(sat) here: a constant drop.", dimension: "voltage", displayUnit: "V", min: 0, max: 100, optional: true });
+const rCeInput = quantity({ key: "rCe", label: "r_CE (IGBT slope resistance)", description: "Slope of the IGBT's on-state curve, V_CE = V_CE0 + r_CE·i. Absent: 0 (constant drop).", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
+const vF0Input = quantity({ key: "vF0", label: "V_F0 (diode threshold)", description: "Antiparallel diode threshold of V_F = V_F0 + r_D·i (IGBT only; a MOSFET's channel conducts reverse current). Absent: diode loss not computed.", dimension: "voltage", displayUnit: "V", min: 0, max: 100, optional: true });
+const rDInput = quantity({ key: "rD", label: "r_D (diode slope resistance)", description: "Slope of the diode's forward curve. Absent: 0.", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
 const trInput = quantity({ key: "tr", label: "Rise time t_r", description: "Current rise (turn-on) time from the datasheet.", dimension: "time", displayUnit: "ns", min: 0, max: 1e-3, optional: true });
 const tfInput = quantity({ key: "tf", label: "Fall time t_f", description: "Current fall (turn-off) time from the datasheet.", dimension: "time", displayUnit: "ns", min: 0, max: 1e-3, optional: true });
 const eonInput = quantity({ key: "eon", label: "E_on", description: "Turn-on energy per pulse at the datasheet test point.", dimension: "energy", displayUnit: "uJ", min: 0, max: 100, optional: true });
@@ -110,12 +125,15 @@ export const calculator: Calculator = {
     "For a sinusoidal-PWM full bridge, half bridge or three-phase bridge: the stresses on one switch, its conduction and " +
     "switching losses from datasheet figures (R_DS(on) or V_CE(sat); rise and fall times or switching energies), its junction " +
     "temperature through one thermal resistance to ambient, and the headroom of its voltage rating against an 80 % derating rule.",
-  inputs: [topologyInput, deviceInput, vdcInput, pInput, pfInput, voutInput, fswInput, rdsOnInput, vceSatInput, trInput, tfInput, eonInput, eoffInput, eTestVInput, eTestIInput, rthJaInput, taInput, vRatedInput, tjMaxInput],
+  inputs: [topologyInput, deviceInput, vdcInput, pInput, pfInput, voutInput, fswInput, rdsOnInput, vceSatInput, rCeInput, vF0Input, rDInput, trInput, tfInput, eonInput, eoffInput, eTestVInput, eTestIInput, rthJaInput, taInput, vRatedInput, tjMaxInput],
   outputs: [
     { key: "vBlock", label: "Blocking voltage", kind: "scalar", unit: "V" },
     { key: "iPeak", label: "Peak current", kind: "scalar", unit: "A" },
     { key: "iRms", label: "RMS current per switch", kind: "scalar", unit: "A" },
-    { key: "pCond", label: "Conduction loss per switch", kind: "scalar", unit: "W" },
+    { key: "pCond", label: "Conduction loss per transistor", kind: "scalar", unit: "W", description: "SPWM duty-weighted, V0 + r·i model (MOSFET: R_DS(on), both directions)." },
+    { key: "pCondDiode", label: "Conduction loss per diode", kind: "scalar", unit: "W", description: "IGBT's antiparallel diode, SPWM duty-weighted; given when vF0 is." },
+    { key: "pCondBound", label: "Conduction loss, upper bound (IGBT)", kind: "scalar", unit: "W", description: "V_CE0·Î/π: the whole half-sine charged to the transistor. An upper bound, not an estimate." },
+    { key: "ma", label: "Modulation index used", kind: "scalar", unit: "", description: "Vout over the largest linear SPWM output." },
     { key: "pSw", label: "Switching loss per switch", kind: "scalar", unit: "W" },
     { key: "pLossTotal", label: "Loss in all switches", kind: "scalar", unit: "W" },
     { key: "tj", label: "Junction temperature", kind: "scalar", unit: "degC" },
@@ -124,23 +142,28 @@ export const calculator: Calculator = {
   formulas: [
     { label: "Load current", latex: String.raw`\hat I = \sqrt{2}\,\frac{P}{pf\,V_{out}}\ \text{(1-ph)},\quad \hat I = \sqrt{2}\,\frac{P}{\sqrt{3}\,V_{LL}\,pf}\ \text{(3-ph)}` },
     { label: "Per-switch current", latex: String.raw`I_{rms} = \hat I/2,\quad I_{avg} = \hat I/\pi` },
-    { label: "Conduction loss", latex: String.raw`P_{cond} = I_{rms}^2 R_{DS(on)}\ \text{(MOSFET)},\quad P_{cond} = V_{CE(sat)}\,I_{avg}\ \text{(IGBT)}` },
+    { label: "Transistor currents, SPWM", latex: String.raw`I_{T,avg} = \hat I\left(\frac{1}{2\pi} + \frac{m_a\cos\varphi}{8}\right),\quad I_{T,rms}^2 = \hat I^2\left(\frac18 + \frac{m_a\cos\varphi}{3\pi}\right)` },
+    { label: "Diode currents, SPWM", latex: String.raw`I_{D,avg} = \hat I\left(\frac{1}{2\pi} - \frac{m_a\cos\varphi}{8}\right),\quad I_{D,rms}^2 = \hat I^2\left(\frac18 - \frac{m_a\cos\varphi}{3\pi}\right)` },
+    { label: "Conduction loss", latex: String.raw`P_T = V_{CE0} I_{T,avg} + r_{CE} I_{T,rms}^2,\quad P_D = V_{F0} I_{D,avg} + r_D I_{D,rms}^2,\quad P_{MOSFET} = R_{DS(on)}\,\hat I^2/4` },
     { label: "Switching loss (edge times)", latex: String.raw`P_{sw} = \tfrac12 V_{dc}\,\frac{\hat I}{\pi}\,(t_r + t_f)\,f_{sw}` },
     { label: "Switching loss (energies)", latex: String.raw`P_{sw} = f_{sw}\,(E_{on} + E_{off})\,\frac{V_{dc}}{V_{test}}\,\frac{\hat I/\pi}{I_{test}}` },
     { label: "Junction temperature", latex: String.raw`T_j = T_a + R_{th(j\text{-}a)}\,(P_{cond} + P_{sw})` },
     { label: "Voltage margin", latex: String.raw`\left(1 - \frac{V_{block}}{0.8\,V_{rated}}\right)\cdot 100\,\%` },
   ],
   conventions: [
-    "A switch position (transistor with its antiparallel diode) carries one half-sine of the load current per cycle; the transistor is charged with all of it, an upper bound.",
+    "A switch position (transistor with its antiparallel diode) carries one half-sine of the load current per cycle; SPWM shares it between transistor (duty (1 + ma·sin θ)/2) and diode, weighted by ma and cos φ = pf.",
+    "IGBT and diode: V0 + r·i on-state model. MOSFET: the channel conducts both directions (synchronous; dead time neglected).",
+    "pCondBound (V_CE0·Î/π) charges the whole half-sine to the transistor: an upper bound, shown for comparison.",
     "Without vout, the largest linear sinusoidal-PWM output (ma = 1) is assumed.",
     "If both edge times and switching energies are given, the energies are used.",
     "Each switch has its own thermal path R_th(j-a) to the ambient; for a shared heatsink, enter the equivalent per switch.",
-    "Diode conduction and reverse-recovery losses, dead time and gate-drive losses are not included.",
+    "Diode reverse-recovery losses, dead time and gate-drive losses are not included.",
   ],
   sources: [
     "Mohan, Undeland & Robbins, Power Electronics: Converters, Applications, and Design, 3rd ed., ch. 8: SPWM output ma·Vdc (full bridge), ma·Vdc/2 (half bridge), 0.612·ma·Vdc line to line (three-phase) — published.",
     "Mohan, Undeland & Robbins, 3rd ed., ch. 2: switching loss ½·Vd·Io·fs·(t_c(on) + t_c(off)) with linearised edges (chapter from memory) — published.",
-    "Averaging over the sine (× 1/π of the peak), half-sine per-switch current, constant-drop IGBT conduction, linear scaling of E_on/E_off with voltage and current — common practice.",
+    "Mohan, Undeland & Robbins, 3rd ed., ch. 8: SPWM duty ratio of a leg, d = (1 + ma·sin θ)/2, averaged over the switching period — published; the transistor and diode average and RMS currents above follow from it by integration over the half cycle — derived.",
+    "V0 + r·i on-state models of IGBT and diode, averaging the switching loss over the sine (× 1/π of the peak), linear scaling of E_on/E_off with voltage and current — common practice, no source.",
     "Blocking voltage at most 80 % of the device rating — common practice.",
   ],
   cautions: [
@@ -158,6 +181,9 @@ export const calculator: Calculator = {
     const fsw = readQuantity(inputs, fswInput);
     const rdsOn = optional(inputs, rdsOnInput);
     const vceSat = optional(inputs, vceSatInput);
+    const rCe = optional(inputs, rCeInput) ?? 0;
+    const vF0 = optional(inputs, vF0Input);
+    const rD = optional(inputs, rDInput) ?? 0;
     const tr = optional(inputs, trInput);
     const tf = optional(inputs, tfInput);
     const eon = optional(inputs, eonInput);
@@ -205,11 +231,21 @@ export const calculator: Calculator = {
     const iAvg = iPeak / Math.PI;
     const vBlock = vdc;
 
-    const pCond = device === "mosfet" ? iRms * iRms * rdsOn! : vceSat! * iAvg;
+    // SPWM duty weighting (see the module comment); ma above 1 is overmodulation, where the linear duty no longer holds.
+    const ma = Math.min(vout / maxLinear, 1);
+    const cosPhi = pf;
+    const transistorAvg = iPeak * (1 / (2 * Math.PI) + (ma * cosPhi) / 8);
+    const transistorRms2 = iPeak * iPeak * (1 / 8 + (ma * cosPhi) / (3 * Math.PI));
+    const diodeAvg = iPeak * (1 / (2 * Math.PI) - (ma * cosPhi) / 8);
+    const diodeRms2 = iPeak * iPeak * (1 / 8 - (ma * cosPhi) / (3 * Math.PI));
+    const pCond = device === "mosfet" ? rdsOn! * (transistorRms2 + diodeRms2) : vceSat! * transistorAvg + rCe * transistorRms2;
+    const pCondDiode = device === "igbt" && vF0 !== undefined ? vF0 * diodeAvg + rD * diodeRms2 : undefined;
+    if (device === "igbt" && vF0 === undefined) warnings.push("vF0 not given: the antiparallel diode's conduction loss is not included in the totals.");
+    if (device === "mosfet" && (rCe > 0 || vF0 !== undefined || rD > 0)) warnings.push("rCe, vF0 and rD are IGBT inputs and are ignored for a MOSFET.");
     const pSw = useEnergies
       ? fsw * (eon! + eoff!) * (vdc / eTestV!) * (iAvg / eTestI!)
       : 0.5 * vdc * iAvg * (tr! + tf!) * fsw;
-    const pSwitch = pCond + pSw;
+    const pSwitch = pCond + (pCondDiode ?? 0) + pSw;
     const tj = ta + rthJa * pSwitch;
     const voltageMargin = (1 - vBlock / (VOLTAGE_DERATING * vRated)) * 100;
 
@@ -225,11 +261,17 @@ export const calculator: Calculator = {
       warnings.push(`The junction temperature (${scalar(tj, "degC").display}) exceeds T_j(max) (${scalar(tjMax, "degC").display}).`);
     }
 
+    warnings.push(
+      `Conduction: SPWM duty-weighted, ${device === "mosfet" ? "R_DS(on) in both directions" : "V_CE0 + r_CE·i for the transistor" + (pCondDiode === undefined ? "" : ", V_F0 + r_D·i for the diode")}, at ma = ${ma.toFixed(3)} and cos φ = ${cosPhi} (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 8 averaging; integrals derived).`,
+    );
     const results: Results = {
       vBlock: scalar(vBlock, "V"),
       iPeak: scalar(iPeak, "A"),
       iRms: scalar(iRms, "A"),
       pCond: scalar(pCond, "W"),
+      ...(pCondDiode === undefined ? {} : { pCondDiode: scalar(pCondDiode, "W") }),
+      ...(device === "igbt" ? { pCondBound: scalar(vceSat! * iAvg, "W") } : {}),
+      ma: scalar(ma, ""),
       pSw: scalar(pSw, "W"),
       pLossTotal: scalar(SWITCH_COUNT[topology]! * pSwitch, "W"),
       tj: scalar(tj, "degC"),

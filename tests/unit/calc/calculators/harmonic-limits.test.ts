@@ -22,7 +22,7 @@ describe("harmonic-limits: IEEE Std 519-2014 Table 1 (voltage) — published", (
     ["138 kV", 1.5, 2.5],
     ["230 kV", 1.0, 1.5],
   ])("bus %s: individual %s %%, THD %s %%", (busVoltage, individual, thd) => {
-    const { results } = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage, spectrum: [{ n: 3, value: 0.5 }, { n: 4, value: 0.1 }] });
+    const { results } = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage, listedTo: 50, spectrum: [{ n: 3, value: 0.5 }, { n: 4, value: 0.1 }] });
     const rows = results.rows as LimitRow[];
     expect(limitOf(rows, 3)).toBe(individual);
     expect(limitOf(rows, 4)).toBe(individual);
@@ -38,16 +38,16 @@ describe("harmonic-limits: IEEE Std 519-2014 Table 1 (voltage) — published", (
   });
 
   it("passes a clean spectrum and fails one harmonic over its limit, with the margin", () => {
-    const clean = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", spectrum: [{ n: 3, value: "4.9 %" }] }).results;
+    const clean = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", listedTo: 50, spectrum: [{ n: 3, value: "4.9 %" }] }).results;
     expect(clean.pass).toBe(true);
-    const over = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", spectrum: [{ n: 3, value: "5.2 %" }] }).results;
+    const over = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", listedTo: 50, spectrum: [{ n: 3, value: "5.2 %" }] }).results;
     expect(over.pass).toBe(false);
     expectClose((over.rows as LimitRow[])[0]!.margin, -0.2, { abs: 1e-12 });
   });
 
   it("fails on THD even when every harmonic passes", () => {
     const spectrum = [3, 5, 7, 9].map((n) => ({ n, value: 4.5 }));
-    const { results, warnings } = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", spectrum });
+    const { results, warnings } = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", spectrum, listedTo: 50 });
     expect((results.rows as LimitRow[]).every((r) => r.pass)).toBe(true);
     expect(results.pass).toBe(false);
     expect(warnings.join(" ")).toMatch(/THD 9.00 % exceeds the limit of 8.00 %/);
@@ -58,7 +58,7 @@ describe("harmonic-limits: IEEE Std 519-2014 Table 1 (voltage) — published", (
   });
 
   it("carries the verdict note and names the table", () => {
-    const { results, warnings } = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", spectrum: [{ n: 3, value: 1 }] });
+    const { results, warnings } = run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "400 V", listedTo: 50, spectrum: [{ n: 3, value: 1 }] });
     expect(warnings[0]).toBe(VERDICT);
     expect(results.source).toMatchObject({ standard: "IEEE Std 519", edition: "2014", table: "Table 1", status: "published" });
   });
@@ -95,7 +95,7 @@ describe("harmonic-limits: IEEE Std 519-2014 Table 2 (current), Isc/IL < 20 — 
   });
 
   it("has a TDD limit of 5.0 % and says the demand-current approximation", () => {
-    const { results, warnings } = run("harmonic-limits", { standard: "ieee519-current", iscIl: "10", spectrum: [{ n: 5, value: 1 }] });
+    const { results, warnings } = run("harmonic-limits", { standard: "ieee519-current", iscIl: "10", listedTo: 50, spectrum: [{ n: 5, value: 1 }] });
     expect(valueOf(results, "thdLimit")).toBe(5);
     expect(warnings.join(" ")).toMatch(/maximum demand current IL \(TDD\)/);
   });
@@ -142,16 +142,17 @@ describe("harmonic-limits: IEC 61000-3-2 Class A (Table 1; table number from mem
   });
 
   it("warns above the 16 A scope", () => {
-    expect(run("harmonic-limits", { standard: "iec61000-3-2-a", spectrum: [{ n: 1, value: "20 A" }, { n: 3, value: "1 A" }] }).warnings.join(" ")).toMatch(/exceeds 16 A/);
+    expect(run("harmonic-limits", { standard: "iec61000-3-2-a", listedTo: 40, spectrum: [{ n: 1, value: "20 A" }, { n: 3, value: "1 A" }] }).warnings.join(" ")).toMatch(/exceeds 16 A/);
   });
 });
 
 // IEEE Std 1547-2018, §7.3: Sinewright's table for it is from memory, unverified; this checks only that it says so.
 describe("harmonic-limits: IEEE Std 1547-2018 (from memory — unverified)", () => {
   it("marks the source as memory and the verdict as unverified", () => {
-    const { results, warnings } = run("harmonic-limits", { standard: "ieee1547", spectrum: [{ n: 3, value: 1 }, { n: 4, value: 1 }] });
+    const { results, warnings } = run("harmonic-limits", { standard: "ieee1547", listedTo: 50, spectrum: [{ n: 3, value: 1 }, { n: 4, value: 1 }] });
     expect((results.source as StandardSource).status).toBe("memory");
-    expect(warnings.join(" ")).toMatch(/UNVERIFIED/);
+    expect(warnings.join(" ")).toMatch(/Informative only, no verdict/);
+    expect(results.pass).toBeUndefined();
     expect(warnings.join(" ")).toMatch(/Even harmonics are not checked/);
     expect((results.rows as LimitRow[]).map((r) => r.n)).toEqual([3]);
   });

@@ -315,7 +315,7 @@ describe("spwm behaviour", () => {
   it("declares its public input and output keys, sources and cautions", () => {
     expect(calculator.id).toBe("spwm");
     expect(calculator.inputs.map((i) => i.key)).toEqual(["vdc", "ma", "mf", "scheme", "bridge", "f", "hmax"]);
-    expect(calculator.outputs.map((o) => o.key)).toEqual(["v1Peak", "v1Rms", "vrms", "thd", "thd40", "thd50", "wthd", "harmonics", "waveform"]);
+    expect(calculator.outputs.map((o) => o.key)).toEqual(["v1Peak", "v1Rms", "vrms", "thd", "dc", "thd40", "thd50", "wthd", "harmonics", "waveform"]);
     expect(calculator.sources.join(" ")).toMatch(/Holmes & Lipo/);
     expect(calculator.cautions.join(" ")).toMatch(/kill|lethal/i);
   });
