@@ -109,9 +109,7 @@ export function dataDir() {
     // A read-only checkout: fall through to a folder outside it.
   }
   const tag = createHash("sha256").update(root).digest("hex").slice(0, 12);
-  const base = isRoot
-    ? "/var/lib/sinewright"
-    : path.join(process.env.XDG_DATA_HOME ?? path.join(os.homedir(), ".local", "share"), "sinewright");
+  const base = isRoot ? "/var/lib/sinewright" : path.join(os.homedir(), ".local", "share", "sinewright");
   return path.join(base, `postgres-${tag}`);
 }
 
