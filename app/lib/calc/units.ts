@@ -13,7 +13,7 @@
  *   you mean 4.7 µF?"), because guessing the unit silently changes magnitudes.
  *   Only inputs documented as dimensionless (ma, mf, pf, hmax …) take bare numbers.
  * - A unit typed in another case or with a habit of the trade ("20 KHz", "48 v",
- *   "10 Ohm", "4.7 uf", "48 VDC", "23º", "60hz") is accepted when exactly one
+ *   "10 Ohm", "4.7 uf", "48 VDC", "30º", "60hz") is accepted when exactly one
  *   unit of the input's dimension matches it ignoring case, and echoed as
  *   understood; where two match (mV/MV, mHz/MHz) it is refused with both.
  * - Apparent power (VA) is not real power: a power input refuses "1.5 kVA".
@@ -342,7 +342,7 @@ const VARIANT_BASES: Partial<Record<Dimension, string>> = {
 const VARIANT_PREFIXES = ["p", "n", "u", "m", "", "k", "M", "G"];
 
 /**
- * Reads "20 KHz", "48 v", "10 Ohm", "4.7 uf", "48 VDC", "23º", "60hz": the units of
+ * Reads "20 KHz", "48 v", "10 Ohm", "4.7 uf", "48 VDC", "30º", "60hz": the units of
  * the input's dimension that match the typed unit ignoring case. One match is
  * read (and said); two (milli or mega: "mv", "MHZ") are refused with both; none
  * gives undefined so the caller's own message stands.

@@ -124,7 +124,7 @@ const SNIPPET_LINE_LENGTH = 80;
 
 /**
  * The MDX of a new block for the editor's palette, e.g.
- * `<QuasiSquare id="qs1" vdc="48 V" alpha="23 deg" f="50 Hz" hmax="49" />`:
+ * `<QuasiSquare id="qs1" vdc="48 V" alpha="30 deg" f="50 Hz" hmax="49" />`:
  * every input at its default, required inputs without one empty (so the block
  * asks for them by name), optional ones without one left out. Long blocks are
  * written one attribute per line.

@@ -45,7 +45,7 @@ describe("limits check: a spectrum that stops short of the table gets no verdict
 
   it("refuses a quasi-square block listed to order 3 (true THD about 30 %)", () => {
     const blocks = sheet([
-      { id: "qs", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg", hmax: "3" } },
+      { id: "qs", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg", hmax: "3" } },
       { id: "lim", calculator: "harmonic-limits", inputs: { standard: "ieee519-voltage", busVoltage: "230 V", spectrum: "=qs.harmonics" } },
     ]);
     expect(errorsOf(blocks.lim)[0]?.message).toMatch(/reaches order 4,/);
@@ -53,7 +53,7 @@ describe("limits check: a spectrum that stops short of the table gets no verdict
 
   it("takes an odd-only source listed to 49 as reaching 50 (half-wave symmetry: order 50 is zero — derived)", () => {
     const blocks = sheet([
-      { id: "qs", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg", hmax: "49" } },
+      { id: "qs", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg", hmax: "49" } },
       { id: "lim", calculator: "harmonic-limits", inputs: { standard: "ieee519-voltage", busVoltage: "230 V", spectrum: "=qs.harmonics" } },
     ]);
     expect(okOf(blocks.lim).results.pass).toBe(false);
@@ -65,7 +65,7 @@ describe("limits check: a spectrum that stops short of the table gets no verdict
     expect(run("harmonic-limits", { standard: "ieee519-voltage", busVoltage: "230 V", spectrum: typed, listedTo: "50" }).results.pass).toBe(true);
     expect(refuse("harmonic-limits", { standard: "iec61000-3-2-a", spectrum: [{ n: 1, value: "5 A" }, { n: 39, value: "0.01 A" }] })[0]!.message).toMatch(/limits orders up to 40/);
     const blocks = sheet([
-      { id: "qs", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg", hmax: "9" } },
+      { id: "qs", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg", hmax: "9" } },
       { id: "lim", calculator: "harmonic-limits", inputs: { standard: "ieee519-voltage", busVoltage: "230 V", spectrum: "=qs.harmonics", listedTo: "50" } },
     ]);
     expect(errorsOf(blocks.lim).map((e) => e.field)).toContain("listedTo");
@@ -153,8 +153,8 @@ describe("typed inputs never change magnitude by a silent guess (issue #16 items
     expect(warnings).toContain(`${key}: read "${typed}" as ${understood}.`);
   });
 
-  it("reads 23º (ordinal sign) as 23°", () => {
-    expect(run("quasi-square", { vdc: "48 V", alpha: "23º" }).warnings).toContain('alpha: read "23º" as 23°.');
+  it("reads 30º (ordinal sign) as 30°", () => {
+    expect(run("quasi-square", { vdc: "48 V", alpha: "30º" }).warnings).toContain('alpha: read "30º" as 30°.');
   });
 
   it.each([
@@ -241,7 +241,7 @@ describe("DC link: ripple follows apparent power (issue #16 item 12)", () => {
 describe("formula results keep their meaning (issue #16 item 9)", () => {
   const formula = (expr: string, extra: { id: string; calculator: string; inputs: Record<string, unknown> }[] = []) =>
     sheet([...extra, { id: "f", calculator: "formula", inputs: { expr } }]).f;
-  const qs = { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "23 deg" } };
+  const qs = { id: "qs1", calculator: "quasi-square", inputs: { vdc: "48 V", alpha: "30 deg" } };
   const stress = (id: string, ta: string) => ({
     id,
     calculator: "switch-stress",
