@@ -8,7 +8,7 @@ import { calculators } from "../app/lib/calc/registry";
 const CATALOGUE_ID = "virtual:calculator-catalogue";
 
 /**
- * `virtual:calculator-catalogue`: every calculator as plain data (id, title, summary, inputs,
+ * `virtual:calculator-catalogue`: every calculator as plain data (id, title, inputs,
  * outputs, cautions), taken from the registry when the app is built — no compute code, so a
  * component that shows blocks without running them loads no engine
  * (app/components/calc/calculator-catalogue.ts). A new calculator needs nothing beyond its
@@ -20,7 +20,7 @@ export function calculatorCatalogue(): Plugin {
     resolveId: (source) => (source === CATALOGUE_ID ? `\0${CATALOGUE_ID}` : undefined),
     load(id) {
       if (id !== `\0${CATALOGUE_ID}`) return undefined;
-      const entries = calculators.map(({ id, title, summary, inputs, outputs, cautions }) => ({ id, title, summary, inputs, outputs, cautions }));
+      const entries = calculators.map(({ id, title, inputs, outputs, cautions }) => ({ id, title, inputs, outputs, cautions }));
       return `export default ${JSON.stringify(entries)};`;
     },
   };

@@ -9,7 +9,7 @@ import entries from "virtual:calculator-catalogue";
 import type { Calculator } from "~/lib/calc/types";
 
 /** What a block shows of its calculator. */
-export type CalculatorDescription = Pick<Calculator, "id" | "title" | "summary" | "inputs" | "outputs" | "cautions">;
+export type CalculatorDescription = Pick<Calculator, "id" | "title" | "inputs" | "outputs" | "cautions">;
 
 export const describedCalculators: readonly CalculatorDescription[] = entries;
 

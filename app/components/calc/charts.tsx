@@ -73,11 +73,12 @@ function Axes({ plot, xTicks, yTicks, xTitle, yTitle, verticalGrid = true }: { p
           </g>
         ))}
       </g>
-      <text className="sw-chart-title" x={plot.x + plot.width / 2} y={CHART_HEIGHT - 4} textAnchor="middle">
+      {/* Both titles sit close to the tick numbers at 12 units; app.css moves them out as the text grows. */}
+      <text className="sw-chart-title-x" x={plot.x + plot.width / 2} y={bottom + 36} textAnchor="middle">
         {xTitle}
       </text>
-      {/* Turned a quarter anticlockwise; a hanging baseline keeps it at the left edge whatever its size. */}
-      <text className="sw-chart-title" transform={`translate(4 ${plot.y + plot.height / 2}) rotate(-90)`} textAnchor="middle" dominantBaseline="hanging">
+      {/* Turned a quarter anticlockwise, its top towards the left edge. */}
+      <text className="sw-chart-title-y" transform={`translate(40 ${plot.y + plot.height / 2}) rotate(-90)`} textAnchor="middle" dominantBaseline="hanging">
         {yTitle}
       </text>
     </g>

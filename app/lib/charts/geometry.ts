@@ -89,7 +89,8 @@ export function niceDomain(min: number, max: number, maxSteps = 5): { domain: [n
     return niceDomain(min - pad, max + pad, maxSteps);
   }
   const step = niceStep(max - min, maxSteps);
-  const low = Math.floor(min / step - 1e-9) * step;
+  // The slack keeps a bound that is already a whole step (0, say) from widening by one more.
+  const low = Math.floor(min / step + 1e-9) * step;
   const high = Math.ceil(max / step - 1e-9) * step;
   const ticks: number[] = [];
   for (let k = Math.round(low / step); k * step <= high + step * 1e-9; k++) ticks.push(steady(k * step));

@@ -27,6 +27,8 @@ describe("scales and ticks", () => {
     const { domain, ticks } = niceDomain(-50.8, 3.2, 5);
     expect(domain).toEqual([-60, 20]);
     expect(ticks).toEqual([-60, -40, -20, 0, 20]);
+    // A bound that is already round stays put.
+    expect(niceDomain(0, 37.8, 4)).toEqual({ domain: [0, 40], ticks: [0, 10, 20, 30, 40] });
   });
 
   it("writes tick numbers plainly and frequencies in engineering notation without the unit", () => {
@@ -96,6 +98,8 @@ describe("a spectrum", () => {
     // Taller for a larger harmonic; all standing on the same baseline.
     expect(centre(3).height).toBeGreaterThan(centre(5).height);
     expect(centre(3).y + centre(3).height).toBeCloseTo(centre(7).y + centre(7).height, 2);
+    // Percent from zero up.
+    expect(chart.yTicks[0]!.value).toBe(0);
   });
 
   it("keeps three-digit order labels apart at the largest text a phone gets (24 units, about 0.6 em a digit)", () => {
