@@ -97,7 +97,7 @@ export function usePreview(source: string, kind: SourceKind, captures: Readonly<
 export function PreviewPending({ failed }: { failed: boolean }) {
   return failed ? (
     <p role="alert" className="text-sm text-danger">
-      The preview could not be loaded. Your text is safe (it is kept as a draft): reload the page to try again.
+      The preview could not be loaded. Reload the page to try again; what you type is still kept as a draft.
     </p>
   ) : (
     <p role="status" className="text-sm text-ink-soft">

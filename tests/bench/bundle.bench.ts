@@ -3,7 +3,7 @@
  * that page fetches (the route manifest, the client entry, each route module from the root
  * down and everything they import statically), then what it may fetch later by dynamic
  * import, and which engine or chart code the first load holds. Prints figures beside the
- * targets; asserts nothing (tests/integration/bundle.test.ts asserts what reading pages hold).
+ * targets; asserts nothing (tests/e2e/bundle.test.ts asserts what reading pages hold).
  *
  * Targets: a sheet reading page ≤ 150 KB of gzipped JavaScript; the editor ≤ 400 KB.
  * Sizes are gzip at the default level (6, what the server's compression middleware sends), in KB of 1,000 bytes.
