@@ -1,8 +1,10 @@
 import { defineConfig } from "vitest/config";
 import { fileURLToPath } from "node:url";
+import { calculatorCatalogue } from "./scripts/vite-plugins";
 
 // Kept apart from vite.config.ts: the React Router plugin must not run under vitest.
 export default defineConfig({
+  plugins: [calculatorCatalogue()],
   resolve: {
     alias: { "~": fileURLToPath(new URL("./app", import.meta.url)) },
   },

@@ -168,7 +168,7 @@ function newestMtime(dir) {
 export function ensureBuild() {
   const marker = path.join(root, "build", "server", "index.js");
   const sources = ["app", "public", "content"].map((d) => path.join(root, d)).filter(existsSync);
-  const configs = ["package-lock.json", "vite.config.ts", "react-router.config.ts", "tsconfig.json"].map((f) => path.join(root, f));
+  const configs = ["package-lock.json", "vite.config.ts", "scripts/vite-plugins.ts", "react-router.config.ts", "tsconfig.json"].map((f) => path.join(root, f));
   const newestSource = Math.max(...sources.map(newestMtime), ...configs.filter(existsSync).map((f) => statSync(f).mtimeMs));
   if (existsSync(marker) && statSync(marker).mtimeMs > newestSource) return;
   console.log("[build] building the app…");

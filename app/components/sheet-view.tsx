@@ -9,10 +9,10 @@ import { toJsxRuntime, type Components } from "hast-util-to-jsx-runtime";
 import { createContext, useContext, useMemo, type ReactNode } from "react";
 import { Fragment, jsx, jsxs } from "react/jsx-runtime";
 import type { BlockOutcome, SheetEvaluation } from "~/lib/calc/evaluate-sheet";
-import { calculatorIds } from "~/lib/calc/registry";
 import { citationKey, type CitationState } from "~/lib/documents/citations";
 import { MEASUREMENT_COMPONENT, type MeasurementOutcome } from "~/lib/waveform/measurement";
 import { CalculatorBlock } from "./calc/calculator-block";
+import { describedCalculators } from "./calc/calculator-catalogue";
 import { MeasuredWaveformBlock } from "./calc/measured-waveform-block";
 import { CitationBadge } from "./citations";
 import { WarningMark } from "./calc/status-icons";
@@ -157,7 +157,7 @@ function SheetSpan(props: React.ComponentProps<"span">) {
 
 // Built once: a new component type per render would remount every block and drop the focus of the field being typed in.
 const SHEET_COMPONENTS: Record<string, unknown> = {
-  ...Object.fromEntries(calculatorIds().map((id) => [componentNameFor(id), blockComponent(id)])),
+  ...Object.fromEntries(describedCalculators.map(({ id }) => [componentNameFor(id), blockComponent(id)])),
   [MEASUREMENT_COMPONENT]: SheetMeasurement,
   Caution: SheetCaution,
   Cite: SheetCite,

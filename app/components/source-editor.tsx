@@ -1,14 +1,19 @@
 /**
  * The MDX editor shared by calc sheets and project documents: CodeMirror with a named,
- * keyboard-reachable editing area, the autosaved draft, and the list of problems the
- * source check found.
+ * keyboard-reachable editing area, the autosaved draft, the live preview and the list of
+ * problems the source check found.
+ *
+ * The editor loads with the page; the preview's pipeline (MDX check, engine, KaTeX) follows
+ * by dynamic import (`usePreview`), so the source is there at once and the preview says it
+ * is being prepared until the pipeline arrives.
  */
 import { markdown } from "@codemirror/lang-markdown";
 import { EditorView } from "@codemirror/view";
 import CodeMirror from "@uiw/react-codemirror";
-import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode, type RefObject } from "react";
+import { useCallback, useDeferredValue, useEffect, useMemo, useRef, useState, type ReactNode, type RefObject } from "react";
 import { Form, Link, useFetcher } from "react-router";
-import type { SourceProblem } from "~/lib/mdx/types";
+import type { SourceKind, SourceProblem } from "~/lib/mdx/types";
+import type { StoredCapture } from "~/lib/waveform/measurement";
 import { HardwareCaution } from "./caution";
 import { FormError, Notice } from "./form-fields";
 
@@ -45,11 +50,74 @@ export function useAutosavedSource(initial: string, base: { field: string; id: s
   return { source, edit, latest, status };
 }
 
+type PreviewPipeline = typeof import("./preview-pipeline");
+let pipelineLoad: Promise<PreviewPipeline> | undefined;
+let pipelineLoaded: PreviewPipeline | undefined;
+
+/** The preview's pipeline, loaded once per page load (a failed load is tried again on the next call). */
+export function loadPreviewPipeline(): Promise<PreviewPipeline> {
+  pipelineLoad ??= import("./preview-pipeline").then(
+    (pipeline) => (pipelineLoaded = pipeline),
+    (error: unknown) => {
+      pipelineLoad = undefined;
+      throw error;
+    },
+  );
+  return pipelineLoad;
+}
+
+const NO_CAPTURES: Readonly<Record<string, StoredCapture>> = {};
+
+/**
+ * The source checked and computed for the preview, once the pipeline has arrived: until
+ * then `pipeline` and `prepared` are undefined (on the server and at hydration too, so both
+ * render the same "preparing" state). The preview may lag the source while typing
+ * (`deferredSource` is what `prepared` was made from).
+ */
+export function usePreview(source: string, kind: SourceKind, captures: Readonly<Record<string, StoredCapture>> = NO_CAPTURES) {
+  const [pipeline, setPipeline] = useState<PreviewPipeline | undefined>(() => pipelineLoaded);
+  const [failed, setFailed] = useState(false);
+  useEffect(() => {
+    if (pipeline) return;
+    let current = true;
+    loadPreviewPipeline().then(
+      (loaded) => current && setPipeline(loaded),
+      () => current && setFailed(true),
+    );
+    return () => {
+      current = false;
+    };
+  }, [pipeline]);
+  const deferredSource = useDeferredValue(source);
+  const prepared = useMemo(() => pipeline?.prepareSheet(deferredSource, kind, captures), [pipeline, deferredSource, kind, captures]);
+  return { pipeline, prepared, deferredSource, failed };
+}
+
+/** What the preview pane shows before the pipeline is here. */
+export function PreviewPending({ failed }: { failed: boolean }) {
+  return failed ? (
+    <p role="alert" className="text-sm text-danger">
+      The preview could not be loaded. Reload the page to try again; what you type is still kept as a draft.
+    </p>
+  ) : (
+    <p role="status" className="text-sm text-ink-soft">
+      Preparing the preview…
+    </p>
+  );
+}
+
 export function SourceCodeEditor({ source, onChange, label, view }: { source: string; onChange: (next: string) => void; label: string; view: RefObject<EditorView | null> }) {
   // The editable area itself carries the name and an explicit tab stop, for screen readers and keyboard users.
   const extensions = useMemo(() => [markdown(), EditorView.contentAttributes.of({ "aria-label": label, tabindex: "0" }), EditorView.lineWrapping], [label]);
+  // CodeMirror starts in the browser after hydration; until then the text itself fills the box.
+  const [started, setStarted] = useState(false);
   return (
     <div className="overflow-hidden rounded-md border border-rule-strong bg-white text-sm">
+      {started ? null : (
+        <pre className="m-0 max-h-[70vh] min-h-[28rem] overflow-auto px-[0.4rem] py-1 pl-9 font-mono leading-[1.4] whitespace-pre-wrap text-ink">
+          {source}
+        </pre>
+      )}
       <CodeMirror
         value={source}
         onChange={onChange}
@@ -60,6 +128,7 @@ export function SourceCodeEditor({ source, onChange, label, view }: { source: st
         maxHeight="70vh"
         onCreateEditor={(editorView) => {
           view.current = editorView;
+          setStarted(true);
         }}
       />
     </div>

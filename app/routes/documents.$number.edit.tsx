@@ -1,16 +1,14 @@
 import type { EditorView } from "@codemirror/view";
-import { useDeferredValue, useMemo, useRef, useState } from "react";
+import { useMemo, useRef, useState } from "react";
 import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
 import type { Route } from "./+types/documents.$number.edit";
 import { ReferenceList } from "~/components/citations";
-import { SheetView, type CitationTarget } from "~/components/sheet-view";
-import { insertAtCursor, SourceEditorLayout, useAutosavedSource } from "~/components/source-editor";
+import type { CitationTarget } from "~/components/sheet-view";
+import { insertAtCursor, PreviewPending, SourceEditorLayout, useAutosavedSource, usePreview } from "~/components/source-editor";
 import { citationKey, citationStatus, toCitationView, type CitationView } from "~/lib/documents/citations";
 import { sourceEditorForm } from "~/lib/forms/sheets";
 import type { SourceProblem } from "~/lib/mdx/types";
 import { parseDocumentNumber, parseSheetNumber, sheetNumberLabel } from "~/lib/sheets/numbering";
-import { prepareSheet } from "~/lib/sheets/pipeline";
-import { prepareUntrustedSheet } from "~/.server/math-typesetter";
 import { requireMember } from "~/.server/access";
 import { citableSheets, discardDocumentDraft, getDocument, getDocumentDraft, getVersion, saveDocumentDraft, saveDocumentVersion, STARTER_DOCUMENT } from "~/.server/documents";
 
@@ -36,8 +34,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     document: { label: document.label, title: document.title, projectCode: document.projectCode },
     base: latest ? { id: latest.id, sequence: latest.sequence } : null,
     source,
-    // The first preview, typeset in the server's worker: a draft is untrusted text.
-    opening: await prepareUntrustedSheet(source, "document"),
     draft: draft ? { updatedAt: draft.updatedAt.toISOString(), staleBase: (draft.baseVersionId ?? null) !== (latest?.id ?? null) } : null,
     sheets,
   };
@@ -75,15 +71,11 @@ export default function DocumentEditor() {
   const { source, edit, status } = useAutosavedSource(loaded.source, { field: "baseVersionId", id: loaded.base?.id ?? null });
   const view = useRef<EditorView | null>(null);
   const [filter, setFilter] = useState("");
-  const deferredSource = useDeferredValue(source);
-  const prepared = useMemo(
-    () => (deferredSource === loaded.source ? loaded.opening : prepareSheet(deferredSource, "document")),
-    [deferredSource, loaded.source, loaded.opening],
-  );
+  const { pipeline, prepared, failed } = usePreview(source, "document");
 
   // The preview decides each citation's state from the revisions the page loaded (stamps are re-checked on the document page).
   const preview = useMemo(() => {
-    if (!prepared.ok) return { targets: {}, references: [] as CitationView[] };
+    if (!prepared?.ok) return { targets: {}, references: [] as CitationView[] };
     const seen = new Map<string, CitationView>();
     for (const c of prepared.citations) {
       const key = citationKey(c.sheet, c.rev);
@@ -111,7 +103,7 @@ export default function DocumentEditor() {
     insertAtCursor(view.current, snippet, () => edit(source + snippet));
   };
 
-  const problems = result?.problems?.length ? result.problems : prepared.ok ? [] : prepared.problems;
+  const problems = result?.problems?.length ? result.problems : prepared && !prepared.ok ? prepared.problems : [];
   const saving = navigation.state !== "idle" && navigation.formData?.get("intent") === "save";
 
   return (
@@ -174,9 +166,11 @@ export default function DocumentEditor() {
       problems={problems}
       save={{ baseField: "baseVersionId", baseId: loaded.base?.id ?? null, notePlaceholder: "e.g. added the filter section", buttonLabel: loaded.base ? "Save as new version" : "Save version 1", saving }}
       preview={
-        prepared.ok ? (
+        !pipeline || !prepared ? (
+          <PreviewPending failed={failed} />
+        ) : prepared.ok ? (
           <>
-            <SheetView tree={prepared.tree} inputsById={{}} citations={preview.targets} />
+            <pipeline.SheetView tree={prepared.tree} inputsById={{}} citations={preview.targets} />
             <ReferenceList citations={preview.references} />
           </>
         ) : (

@@ -1,17 +1,12 @@
 import type { EditorView } from "@codemirror/view";
-import { useCallback, useDeferredValue, useMemo, useRef, useState } from "react";
+import { useCallback, useRef, useState } from "react";
 import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
 import type { Route } from "./+types/sheets.$number.edit";
 import { AttachmentsPanel } from "~/components/attachments-panel";
-import { SheetView } from "~/components/sheet-view";
-import { insertAtCursor, SourceEditorLayout, useAutosavedSource } from "~/components/source-editor";
-import { blockSnippet, checkSheetSource, nextBlockId, setBlockInput } from "~/lib/mdx";
-import { measurementSnippet } from "~/lib/mdx/components";
+import { insertAtCursor, loadPreviewPipeline, PreviewPending, SourceEditorLayout, useAutosavedSource, usePreview } from "~/components/source-editor";
 import { sourceEditorForm } from "~/lib/forms/sheets";
 import type { SourceProblem } from "~/lib/mdx/types";
 import { parseSheetNumber } from "~/lib/sheets/numbering";
-import { prepareSheet } from "~/lib/sheets/pipeline";
-import { prepareUntrustedSheet } from "~/.server/math-typesetter";
 import { requireMember } from "~/.server/access";
 import { attachmentLimitBytes, capturesForSheet, listAttachments } from "~/.server/attachments";
 import { discardDraft, getDraft, getRevisionById, getSheet, saveDraft, saveRevision, STARTER_SOURCE } from "~/.server/sheets";
@@ -40,8 +35,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     sheet: { label: sheet.label, title: sheet.title },
     base: latest ? { id: latest.id, label: latest.label } : null,
     source,
-    // The first preview, typeset in the server's worker: a draft is untrusted text.
-    opening: await prepareUntrustedSheet(source, "sheet", captures),
     draft: draft ? { updatedAt: draft.updatedAt.toISOString(), staleBase: (draft.baseRevisionId ?? null) !== (latest?.id ?? null) } : null,
     draftBaseId: draft ? draft.baseRevisionId : null,
     palette: calculators.map((c) => ({ id: c.id, title: c.title, summary: c.summary })),
@@ -84,14 +77,13 @@ export default function SheetEditor() {
   const { source, edit, latest: latestSource, status } = useAutosavedSource(loaded.source, { field: "baseRevisionId", id: loaded.base?.id ?? null });
   const [writeBackError, setWriteBackError] = useState<string | null>(null);
   const view = useRef<EditorView | null>(null);
-  const deferredSource = useDeferredValue(source);
-  const prepared = useMemo(
-    () => (deferredSource === loaded.source ? loaded.opening : prepareSheet(deferredSource, "sheet", loaded.captures)),
-    [deferredSource, loaded.source, loaded.opening, loaded.captures],
-  );
+  const { pipeline, prepared, deferredSource, failed } = usePreview(source, "sheet", loaded.captures);
 
   const onInputChange = useCallback(
     (blockId: string, key: string, value: string) => {
+      // Inputs are edited in the preview, which is only there once the pipeline is.
+      if (!pipeline || !prepared) return;
+      const { checkSheetSource, setBlockInput } = pipeline;
       const current = latestSource.current;
       // The preview may lag behind the source (deferred); block positions must come from the current text.
       const checked = prepared.ok && deferredSource === current ? prepared : checkSheetSource(current, "sheet");
@@ -106,21 +98,23 @@ export default function SheetEditor() {
         setWriteBackError(`${blockId}.${key}: ${error instanceof Error ? error.message : String(error)}`);
       }
     },
-    [prepared, deferredSource, edit],
+    [pipeline, prepared, deferredSource, edit],
   );
 
-  const insertBlock = (calculatorId: string) => {
-    const existing = prepared.ok ? prepared.blocks.map((b) => b.id) : [];
+  const insertBlock = async (calculatorId: string) => {
+    const { blockSnippet, nextBlockId } = pipeline ?? (await loadPreviewPipeline());
+    const existing = prepared?.ok ? prepared.blocks.map((b) => b.id) : [];
     const snippet = `\n${blockSnippet(calculatorId, nextBlockId(calculatorId, existing))}\n`;
     insertAtCursor(view.current, snippet, () => edit(source + snippet));
   };
 
   /** A measured block for a capture, compared with the first waveform calculator on the sheet. */
-  const insertMeasurement = (fileName: string) => {
-    const taken = prepared.ok ? [...prepared.blocks.map((b) => b.id), ...prepared.measurementBlocks.map((m) => m.id)] : [];
+  const insertMeasurement = async (fileName: string) => {
+    const { measurementSnippet } = pipeline ?? (await loadPreviewPipeline());
+    const taken = prepared?.ok ? [...prepared.blocks.map((b) => b.id), ...prepared.measurementBlocks.map((m) => m.id)] : [];
     let n = 1;
     while (taken.includes(`m${n}`)) n++;
-    const compare = prepared.ok
+    const compare = prepared?.ok
       ? prepared.blocks.find((b) => {
           const outcome = prepared.evaluation.blocks[b.id];
           return outcome?.ok && Array.isArray(outcome.results.harmonics);
@@ -130,7 +124,7 @@ export default function SheetEditor() {
     insertAtCursor(view.current, snippet, () => edit(source + snippet));
   };
 
-  const problems = result?.problems?.length ? result.problems : prepared.ok ? [] : prepared.problems;
+  const problems = result?.problems?.length ? result.problems : prepared && !prepared.ok ? prepared.problems : [];
   const saving = navigation.state !== "idle" && navigation.formData?.get("intent") === "save";
 
   return (
@@ -159,7 +153,7 @@ export default function SheetEditor() {
           <ul className="mt-2 grid gap-1 sm:grid-cols-2">
             {loaded.palette.map((c) => (
               <li key={c.id}>
-                <button type="button" className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper" onClick={() => insertBlock(c.id)} title={c.summary}>
+                <button type="button" className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper" onClick={() => void insertBlock(c.id)} title={c.summary}>
                   <span className="font-medium">{c.title}</span>
                   <span className="block text-xs text-ink-faint">{c.summary}</span>
                 </button>
@@ -175,7 +169,7 @@ export default function SheetEditor() {
               <ul className="mt-1 grid gap-1 p-0">
                 {Object.keys(loaded.captures).map((fileName) => (
                   <li key={fileName} className="list-none">
-                    <button type="button" className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper" onClick={() => insertMeasurement(fileName)}>
+                    <button type="button" className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-paper" onClick={() => void insertMeasurement(fileName)}>
                       <span className="font-mono">{fileName}</span>
                       <span className="block text-xs text-ink-faint">Measured waveform, compared with the first waveform calculator on the sheet</span>
                     </button>
@@ -196,8 +190,10 @@ export default function SheetEditor() {
         ) : null
       }
       preview={
-        prepared.ok ? (
-          <SheetView
+        !pipeline || !prepared ? (
+          <PreviewPending failed={failed} />
+        ) : prepared.ok ? (
+          <pipeline.SheetView
             tree={prepared.tree}
             inputsById={Object.fromEntries(prepared.blocks.map((b) => [b.id, b.inputs]))}
             evaluation={prepared.evaluation}

@@ -52,7 +52,7 @@ describe("measuring a capture in the browser", () => {
     expect(await table.getByRole("row").count()).toBe(6); // head, fundamental, THD, 3rd, 5th, 7th
     expect(await table.textContent()).toContain("within");
     expect(await measured.locator("figure").count()).toBe(2); // waveform and spectrum
-    expect(await measured.locator("figure svg.recharts-surface").count()).toBe(2);
+    expect(await measured.locator("figure .sw-chart svg").count()).toBe(2);
     expect(await measured.textContent()).toContain("Probing lethal voltages.");
 
     const violations = await seriousAccessibilityViolations(page);
@@ -64,7 +64,7 @@ describe("measuring a capture in the browser", () => {
     const saved = page.locator('section[data-block-id="m1"]');
     await expect.poll(() => saved.textContent()).toContain("Matches qs1 within tolerance");
     expect(await saved.getByRole("region", { name: "Comparison of m1 with qs1" }).getByRole("row").count()).toBe(6);
-    expect(await saved.locator("figure svg.recharts-surface").count()).toBe(2);
+    expect(await saved.locator("figure .sw-chart svg").count()).toBe(2);
     const onSheet = await seriousAccessibilityViolations(page);
     expect(onSheet, describeViolations(onSheet)).toEqual([]);
 

@@ -1,11 +1,8 @@
 import { useId, useState } from "react";
-import { VERDICT_NOTE } from "~/lib/calc/calculators/harmonic-limits";
 import type { BlockOutcome } from "~/lib/calc/evaluate-sheet";
-import { formatQuantity } from "~/lib/calc/format";
-import { calculators, getCalculator } from "~/lib/calc/registry";
+import { formatQuantity, SI_UNIT } from "~/lib/calc/format";
 import type {
   BodePoint,
-  Calculator,
   FieldError,
   Harmonic,
   InputSpec,
@@ -16,7 +13,8 @@ import type {
   StandardSource,
   WaveformPoint,
 } from "~/lib/calc/types";
-import { SI_UNIT } from "~/lib/calc/units";
+import { VERDICT_NOTE } from "~/lib/calc/verdict-note";
+import { describeCalculator, describedCalculators, type CalculatorDescription } from "./calculator-catalogue";
 import { BodeChart, SpectrumChart, WaveformChart } from "./charts";
 import { HarmonicsTable } from "./harmonics-table";
 import { LimitsCheck } from "./limits-check";
@@ -61,7 +59,7 @@ export function BlockHeader({ titleId, blockId, title, status }: { titleId: stri
 /** Cautions most calculators share: the sheet shows them once in full, a block names them in one line. */
 const SHARED_CAUTIONS: ReadonlySet<string> = (() => {
   const counts = new Map<string, number>();
-  for (const c of calculators) for (const text of c.cautions) counts.set(text, (counts.get(text) ?? 0) + 1);
+  for (const c of describedCalculators) for (const text of c.cautions) counts.set(text, (counts.get(text) ?? 0) + 1);
   return new Set([...counts].filter(([, n]) => n >= 3).map(([text]) => text));
 })();
 
@@ -75,7 +73,7 @@ function arrayResult<T>(results: Results, key: string): T[] | undefined {
 }
 
 /** The first output of a kind, so a block finds its plot data whatever the output is called. */
-function outputOfKind<T>(calculator: Calculator, results: Results, kind: string): { key: string; label: string; value: T[] } | undefined {
+function outputOfKind<T>(calculator: CalculatorDescription, results: Results, kind: string): { key: string; label: string; value: T[] } | undefined {
   for (const spec of calculator.outputs) {
     if (spec.kind !== kind) continue;
     const value = arrayResult<T>(results, spec.key);
@@ -229,7 +227,7 @@ function InputField({ fieldId, spec, raw, error, resolved, onChange }: FieldProp
   );
 }
 
-function ReadOnlyInputs({ calculator, inputs, outcome }: { calculator: Calculator; inputs: Record<string, string>; outcome: BlockOutcome | undefined }) {
+function ReadOnlyInputs({ calculator, inputs, outcome }: { calculator: CalculatorDescription; inputs: Record<string, string>; outcome: BlockOutcome | undefined }) {
   const parsed = outcome?.ok ? outcome.inputs : {};
   const errors = outcome && !outcome.ok ? outcome.errors : [];
   return (
@@ -263,7 +261,7 @@ function ReadOnlyInputs({ calculator, inputs, outcome }: { calculator: Calculato
   );
 }
 
-function ResultsTable({ calculator, results, blockId }: { calculator: Calculator; results: Results; blockId: string }) {
+function ResultsTable({ calculator, results, blockId }: { calculator: CalculatorDescription; results: Results; blockId: string }) {
   const rows = calculator.outputs.filter((o) => o.kind === "scalar" && isScalar(results[o.key]));
   if (rows.length === 0) return null;
   return (
@@ -291,7 +289,7 @@ function ErrorSummary({
 }: {
   blockId: string;
   errors: FieldError[];
-  calculator: Calculator | undefined;
+  calculator: CalculatorDescription | undefined;
   fieldIdFor: ((key: string) => string) | undefined;
 }) {
   return (
@@ -338,7 +336,7 @@ function Warnings({ warnings, blockId }: { warnings: string[]; blockId: string }
   );
 }
 
-function Cautions({ calculator }: { calculator: Calculator }) {
+function Cautions({ calculator }: { calculator: CalculatorDescription }) {
   const shared = calculator.cautions.some((c) => SHARED_CAUTIONS.has(c));
   // The verdict note is printed with the verdict itself.
   const own = calculator.cautions.filter((c) => !SHARED_CAUTIONS.has(c) && c !== VERDICT_NOTE);
@@ -372,7 +370,7 @@ function Cautions({ calculator }: { calculator: Calculator }) {
  */
 export function CalculatorBlock({ blockId, calculatorId, inputs, outcome, editable = false, onInputChange }: CalculatorBlockProps) {
   const uid = useId();
-  const calculator = getCalculator(calculatorId);
+  const calculator = describeCalculator(calculatorId);
   const titleId = `${uid}title`;
   const fieldIdFor = (key: string) => `${uid}${key}`;
 

@@ -1,4 +1,4 @@
-import { VERDICT_NOTE } from "~/lib/calc/calculators/harmonic-limits";
+import { VERDICT_NOTE } from "~/lib/calc/verdict-note";
 import { formatQuantity } from "~/lib/calc/format";
 import type { LimitRow, ScalarResult, StandardSource } from "~/lib/calc/types";
 import { OverMark, PassMark, WarningMark } from "./status-icons";

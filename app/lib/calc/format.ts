@@ -7,7 +7,27 @@
  * Percent, decibels, angles, temperatures and thermal resistances are never
  * prefixed: "5.00 %", "-43.9 dB", "30.0°", "25.0 °C", "1.50 K/W".
  */
-import type { ScalarResult } from "./types";
+import type { Dimension, ScalarResult } from "./types";
+
+/**
+ * The SI unit each dimension is stored in, as mathjs spells it ("" = pure number). Here rather
+ * than in units.ts so that showing a value never loads the units engine.
+ */
+export const SI_UNIT: Record<Dimension, string> = {
+  voltage: "V",
+  current: "A",
+  frequency: "Hz",
+  capacitance: "F",
+  inductance: "H",
+  resistance: "ohm",
+  power: "W",
+  energy: "J",
+  time: "s",
+  angle: "deg",
+  temperature: "degC",
+  thermalResistance: "K/W",
+  dimensionless: "",
+};
 
 const PREFIXES: { exponent: number; symbol: string }[] = [
   { exponent: -12, symbol: "p" },

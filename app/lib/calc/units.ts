@@ -54,8 +54,10 @@ import {
   type MathNode,
   type Unit,
 } from "mathjs";
-import { formatQuantity } from "./format";
+import { formatQuantity, SI_UNIT } from "./format";
 import type { Dimension } from "./types";
+
+export { SI_UNIT };
 
 const instance = create(
   {
@@ -112,23 +114,6 @@ instance.import(
 export const math = instance;
 export { parseExpressionTree };
 export type { Unit as MathUnit };
-
-/** The SI unit each dimension is stored in, as mathjs spells it ("" = pure number). */
-export const SI_UNIT: Record<Dimension, string> = {
-  voltage: "V",
-  current: "A",
-  frequency: "Hz",
-  capacitance: "F",
-  inductance: "H",
-  resistance: "ohm",
-  power: "W",
-  energy: "J",
-  time: "s",
-  angle: "deg",
-  temperature: "degC",
-  thermalResistance: "K/W",
-  dimensionless: "",
-};
 
 /** How messages name a dimension, and an example of typing it. */
 const DIMENSION_WORDS: Record<Dimension, { noun: string; example: string }> = {

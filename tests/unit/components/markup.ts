@@ -90,48 +90,47 @@ export interface DrawnChart {
   plot: { x: number; y: number; width: number; height: number };
 }
 
-/** Every recharts chart in the markup, in document order. */
+/** Every chart in the markup, in document order. */
 export function drawnCharts(html: string): DrawnChart[] {
-  return [...html.matchAll(/<svg[^>]*class="recharts-surface"[^>]*>[\s\S]*?<\/svg>/g)].map((m) => {
+  return [...html.matchAll(/<div class="sw-chart"[^>]*><svg[\s\S]*?<\/svg>/g)].map((m) => {
     const svg = m[0];
-    // The chart clips its plot area with a rect of exactly that area.
-    const rect = svg.match(/<clipPath id="[^"]*-clip"><rect ([^>]*)>/)?.[1] ?? "";
-    const num = (name: string) => Number(rect.match(new RegExp(`\\b${name}="([^"]+)"`))?.[1]);
-    return { svg, plot: { x: num("x"), y: num("y"), width: num("width"), height: num("height") } };
+    // The axis lines run from the plot's top left corner down to its bottom right: M x,y V bottom H right.
+    const [x, y, bottom, right] = (svg.match(/<path class="sw-chart-axis" d="M([\d.]+),([\d.]+)V([\d.]+)H([\d.]+)"/) ?? []).slice(1).map(Number);
+    return { svg, plot: { x: x!, y: y!, width: right! - x!, height: bottom! - y! } };
   });
-}
-
-/** The vertices of the chart's line trace (its `d`, made of M and L commands). */
-export function tracePoints(chart: DrawnChart): { x: number; y: number }[] {
-  const d = chart.svg.match(/<path[^>]*class="recharts-curve recharts-line-curve"[^>]*\sd="([^"]+)"/)?.[1] ?? "";
-  return [...d.matchAll(/[ML](-?[\d.]+),(-?[\d.]+)/g)].map((m) => ({ x: Number(m[1]), y: Number(m[2]) }));
 }
 
 /** The raw `d` of the chart's line trace. */
 export function traceData(chart: DrawnChart): string {
-  return chart.svg.match(/<path[^>]*class="recharts-curve recharts-line-curve"[^>]*\sd="([^"]+)"/)?.[1] ?? "";
+  return chart.svg.match(/<path class="sw-chart-trace" d="([^"]+)"/)?.[1] ?? "";
+}
+
+/** The vertices of the chart's line trace (its `d`, made of M and L commands). */
+export function tracePoints(chart: DrawnChart): { x: number; y: number }[] {
+  return [...traceData(chart).matchAll(/[ML](-?[\d.]+),(-?[\d.]+)/g)].map((m) => ({ x: Number(m[1]), y: Number(m[2]) }));
 }
 
 /** The bars of a bar chart, as rectangles. */
 export function bars(chart: DrawnChart): { x: number; y: number; width: number; height: number }[] {
-  return [...chart.svg.matchAll(/<path ([^>]*class="recharts-rectangle"[^>]*)>/g)].map((m) => {
-    const num = (name: string) => Number(m[1]!.match(new RegExp(`\\s?\\b${name}="([^"]+)"`))?.[1]);
+  const group = chart.svg.match(/<g class="sw-chart-bars">[\s\S]*?<\/g>/)?.[0] ?? "";
+  return [...group.matchAll(/<rect ([^>]*)>/g)].map((m) => {
+    const num = (name: string) => Number(m[1]!.match(new RegExp(`\\b${name}="([^"]+)"`))?.[1]);
     return { x: num("x"), y: num("y"), width: num("width"), height: num("height") };
   });
 }
 
 /** Tick labels of the chart's x axis with where they stand. */
 export function xTicks(chart: DrawnChart): { label: string; x: number }[] {
-  const axis = chart.svg.match(/<g class="recharts-layer recharts-cartesian-axis recharts-xAxis[\s\S]*?<\/g><\/g>/)?.[0] ?? "";
-  return [...axis.matchAll(/<tspan x="([^"]+)"[^>]*>([^<]*)<\/tspan>/g)].map((m) => ({ label: decode(m[2]!), x: Number(m[1]) }));
+  const axis = chart.svg.match(/<g class="sw-chart-xticks">([\s\S]*?)<\/g><\/g>/)?.[0] ?? "";
+  return [...axis.matchAll(/<text x="([^"]+)"[^>]*>([^<]*)<\/text>/g)].map((m) => ({ label: decode(m[2]!), x: Number(m[1]) }));
 }
 
 /** Vertical reference lines with their labels (e.g. "fsw") and where they stand. */
 export function markers(chart: DrawnChart): { label: string; x: number }[] {
-  return [...chart.svg.matchAll(/<g class="recharts-layer recharts-reference-line">([\s\S]*?)<\/g>/g)]
+  return [...chart.svg.matchAll(/<g class="sw-chart-marker[^"]*">([\s\S]*?)<\/g>/g)]
     .map((m) => {
       const line = m[1]!.match(/<line [^>]*x1="([^"]+)"[^>]*x2="([^"]+)"/);
-      const label = m[1]!.match(/<tspan[^>]*>([^<]*)<\/tspan>/)?.[1];
+      const label = m[1]!.match(/<text[^>]*>([^<]*)<\/text>/)?.[1];
       return line && line[1] === line[2] && label ? { label: decode(label), x: Number(line[1]) } : undefined;
     })
     .filter((m): m is { label: string; x: number } => m !== undefined);

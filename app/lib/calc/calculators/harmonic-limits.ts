@@ -46,8 +46,9 @@ import { IEEE1547_HIGHEST_ORDER, IEEE1547_ODD_LIMITS, IEEE1547_ORIGIN, IEEE1547_
 import { tableLimitAt, type TableOrigin } from "../../standards/types";
 import type { Calculator, ChoiceInputSpec, LimitRow, QuantityInputSpec, Results, SpectrumInputSpec, SpectrumLine, StandardSource } from "../types";
 import { readChoice, readQuantity } from "./shared-inputs";
+import { VERDICT_NOTE } from "../verdict-note";
 
-export const VERDICT_NOTE = "Engineering estimate — compliance is established by accredited testing and the utility's interconnection rules.";
+export { VERDICT_NOTE };
 
 const standardInput: ChoiceInputSpec = {
   key: "standard",
