@@ -208,7 +208,9 @@ export function spectrumGeometry(harmonics: readonly Harmonic[]): SpectrumGeomet
       const percent = steady(h.percent);
       const barTop = y(Math.max(0, percent));
       return { n: h.n, percent, x: hundredths(x(h.n) - width / 2), y: barTop, width, height: hundredths(y(0) - barTop) };
-    }),
+    })
+      // A line that rounds to nothing (an order the scheme removes, e.g. the 3rd at α = 30°) draws no bar.
+      .filter((bar) => bar.height > 0),
     xTicks: ticksAt(orders, x, String),
     yTicks: ticksAt(ticks, y, tickNumber),
   };

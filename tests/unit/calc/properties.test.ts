@@ -50,9 +50,24 @@ function plausible(spec: InputSpec): fc.Arbitrary<unknown> {
   }
 }
 
-function plausibleInputs(specs: InputSpec[]): fc.Arbitrary<Record<string, unknown>> {
+/**
+ * Inputs whose valid values are narrower than their range says: harmonic orders to remove
+ * are distinct odd, non-triplen whole numbers, and a solution number is rarely above the few
+ * solutions found. Drawn from the range alone, almost every run would be refused.
+ */
+const NARROWER: Record<string, Record<string, fc.Arbitrary<unknown>>> = {
+  "harmonic-elimination": {
+    eliminate: fc.uniqueArray(fc.constantFrom(5, 7, 11, 13, 17, 19), { minLength: 1, maxLength: 4 }).map((orders) => [...orders].sort((a, b) => a - b).join(", ")),
+    pick: fc.constantFrom("1", "2"),
+  },
+};
+
+function plausibleInputs(specs: InputSpec[], narrower: Record<string, fc.Arbitrary<unknown>> = {}): fc.Arbitrary<Record<string, unknown>> {
   const shape: Record<string, fc.Arbitrary<unknown>> = {};
-  for (const spec of specs) shape[spec.key] = spec.optional || spec.default !== undefined ? fc.option(plausible(spec), { nil: undefined }) : plausible(spec);
+  for (const spec of specs) {
+    const value = narrower[spec.key] ?? plausible(spec);
+    shape[spec.key] = spec.optional || spec.default !== undefined ? fc.option(value, { nil: undefined }) : value;
+  }
   return fc.record(shape);
 }
 
@@ -73,7 +88,7 @@ describe.each(calculators.map((c) => [c.id, c] as const))("%s", (id, calculator)
   it("never returns NaN or ±Infinity for inputs in range", () => {
     let computed = 0;
     fc.assert(
-      fc.property(plausibleInputs(calculator.inputs), (raw) => {
+      fc.property(plausibleInputs(calculator.inputs, NARROWER[id]), (raw) => {
         const outcome = evaluateCalculator(id, raw);
         if (!outcome.ok) {
           expectWellFormedErrors(outcome.errors);
