@@ -38,7 +38,6 @@ try {
   process.exit(1);
 }
 
-const routeOf = entry.createRouteMatcher(build.routes);
 const app = express();
 app.disable("x-powered-by");
 app.set("trust proxy", settings.TRUST_PROXY);
@@ -74,7 +73,7 @@ function onlyFilesIn(folder, serve) {
 
 function requestFacts(req) {
   const context = req.logContext ?? {};
-  return { route: routeOf(new URL(req.originalUrl ?? req.url ?? "/", "http://x").pathname), userId: context.userId ?? null, via: context.via };
+  return { route: context.route ?? "unmatched", userId: context.userId ?? null, via: context.via };
 }
 
 // The only client address the app trusts: from the socket, or from proxies named in TRUST_PROXY.
@@ -97,17 +96,6 @@ app.use(onlyFilesIn("public", express.static("public", { maxAge: "1h", index: fa
 app.use((req, _res, next) => {
   req.logContext = { requestId: req.id };
   entry.runWithRequestLog(req.logContext, next);
-});
-// A page kept by the page cache (app/.server/page-cache.ts) is sent from here: for a page many
-// people read, building the framework's request and response costs more than the lookup.
-const cachedPatterns = new Set(entry.cachedPagePatterns(build.routes));
-app.get("*splat", (req, res, next) => {
-  if (!req.headers.cookie || req.path.endsWith(".data") || !cachedPatterns.has(routeOf(req.path))) return next();
-  entry
-    .cachedPageAnswer({ url: req.originalUrl, cookie: req.headers.cookie, secure: req.secure, encoding: req.acceptsEncodings("br", "gzip", "identity") || "identity" })
-    .then((page) => (page ? res.status(200).set(page.headers).end(page.body) : next()))
-    // Whatever went wrong, the framework answers as it always does.
-    .catch(() => next());
 });
 app.all("*splat", createRequestHandler({ build, mode: settings.NODE_ENV }));
 // Whatever Express itself refuses (a malformed URL, a body it cannot read) still gets words and our headers, never a stack.

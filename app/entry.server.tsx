@@ -16,10 +16,8 @@ export { startBackgroundWork as prepareServer, stopBackgroundWork as stopServer 
 /** For server.js: the validated settings, what its request log lines say, and every response's security headers. */
 export { config as serverConfig, ConfigError } from "./.server/config";
 export { logger } from "./.server/logger";
-export { createRouteMatcher, redactUrl, runWithRequestLog } from "./.server/request-log";
+export { redactUrl, runWithRequestLog } from "./.server/request-log";
 export { securityHeaders };
-/** For server.js: cached sheet and document pages, answered before the framework builds a request. */
-export { cachedPageAnswer, cachedPagePatterns } from "./.server/page-cache";
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
   // One nonce per response: the framework's own inline scripts carry it; nothing else may run inline.
@@ -44,8 +42,6 @@ export default function handleRequest(request: Request, responseStatusCode: numb
       },
       onError(error: unknown) {
         responseStatusCode = 500;
-        const log = currentRequestLog();
-        if (log) log.renderFailed = true;
         // A client that went away mid-page (closed tab, a benchmark's last connections) is not a server error.
         if (shellRendered && !request.signal.aborted) logger().error({ err: loggableError(error), url: redactUrl(request.url) }, "rendering failed after the page started");
       },

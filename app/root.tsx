@@ -3,10 +3,12 @@ import type { Route } from "./+types/root";
 import { originGuard } from "./.server/origin-guard";
 import { startOutboxWorker } from "./.server/mail/outbox";
 import { enforceApiRateLimit } from "./.server/rate-limit";
+import { noteRoute } from "./.server/request-log";
 import "./app.css";
 
 export const middleware: Route.MiddlewareFunction[] = [
-  async ({ request }, next) => {
+  async ({ request, pattern }, next) => {
+    noteRoute(pattern);
     originGuard(request);
     await enforceApiRateLimit(request);
     // In production server.js starts the worker; under `npm run dev` the first request does.

@@ -1,6 +1,4 @@
-import { createHmac, timingSafeEqual } from "node:crypto";
 import { and, asc, eq, isNull } from "drizzle-orm";
-import { parseCookies } from "better-auth/cookies";
 import { redirect } from "react-router";
 import { auth } from "./auth";
 import { db } from "./db/client";
@@ -112,27 +110,6 @@ async function lookUpSignedIn(request: Request): Promise<SignedIn | null> {
   const { id, name, email } = session.user;
   noteSignedIn(id, "session");
   return { user: { id, name, email }, activeTeamId: session.session.activeOrganizationId ?? null, via: "session" };
-}
-
-let sessionCookie: Promise<{ name: string; secret: string }> | undefined;
-
-/**
- * The session token a signed session cookie carries, checked exactly as better-auth signs it
- * (`token.` + base64 HMAC-SHA256 of the token under the auth secret), or null. It says nothing
- * about whether the session still exists: the caller's query must ask. Only for the page cache's
- * quick look-up (app/.server/page-cache.ts), which must cost less than the page it saves;
- * everything else asks better-auth itself (getSignedIn).
- */
-export async function signedSessionToken(cookieHeader: string): Promise<string | null> {
-  sessionCookie ??= auth().$context.then((context) => ({ name: context.authCookies.sessionToken.name, secret: context.secret }));
-  const { name, secret } = await sessionCookie;
-  const value = parseCookies(cookieHeader).get(name);
-  const dot = value?.lastIndexOf(".") ?? -1;
-  if (!value || dot < 1) return null;
-  const token = value.slice(0, dot);
-  const given = Buffer.from(value.slice(dot + 1), "base64");
-  const expected = createHmac("sha256", secret).update(token).digest();
-  return given.length === expected.length && timingSafeEqual(given, expected) ? token : null;
 }
 
 export async function requireUser(request: Request): Promise<SignedInUser> {

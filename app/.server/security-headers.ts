@@ -3,10 +3,8 @@ import { config } from "./config";
 export interface SecurityHeaderOptions {
   /** The request came over TLS (directly, or through a trusted proxy's X-Forwarded-Proto). */
   secure: boolean;
-  /** Pages get the full Content-Security-Policy with this response's nonce… */
+  /** Pages get the full Content-Security-Policy with this response's nonce. */
   nonce?: string;
-  /** …or, for a kept page sent again (app/.server/page-cache.ts), the hashes of its own inline scripts. */
-  scriptSources?: string[];
   html: boolean;
 }
 
@@ -19,7 +17,7 @@ export interface SecurityHeaderOptions {
  */
 export function securityHeaders(options: SecurityHeaderOptions): Record<string, string> {
   const headers: Record<string, string> = {
-    "Content-Security-Policy": options.html ? pagePolicy([...(options.nonce ? [`'nonce-${options.nonce}'`] : []), ...(options.scriptSources ?? [])]) : "default-src 'none'; frame-ancestors 'none'",
+    "Content-Security-Policy": options.html ? pagePolicy(options.nonce ? [`'nonce-${options.nonce}'`] : []) : "default-src 'none'; frame-ancestors 'none'",
     "X-Content-Type-Options": "nosniff",
     "Referrer-Policy": "strict-origin-when-cross-origin",
     "X-Frame-Options": "DENY",

@@ -13,10 +13,6 @@ import { parseDocumentNumber } from "~/lib/sheets/numbering";
 import { requireMember, type Member } from "~/.server/access";
 import { citationView, DocumentRuleError, getDocument, getVersion, listVersions, updateCitation, versionCitations } from "~/.server/documents";
 import { roleAtLeast } from "~/.server/roles";
-import { pageCache } from "~/.server/page-cache";
-
-/** Read far more often than written: the rendered page is kept until anything it shows changes. */
-export const middleware: Route.MiddlewareFunction[] = [pageCache];
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `${data.document.label} ${data.document.title} · Sinewright` : "Project document · Sinewright" }];
 

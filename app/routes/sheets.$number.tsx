@@ -24,11 +24,7 @@ import { citingDocuments } from "~/.server/documents";
 import { listProjects } from "~/.server/projects";
 import { getRevision, getRevisionById, getSheet, listRevisions, reuseRevision, revisionBlocks, sheetLineage, SheetRuleError } from "~/.server/sheets";
 import { sheetNumberLabel } from "~/lib/sheets/numbering";
-import { pageCache } from "~/.server/page-cache";
 import { describeAuditEvent } from "~/lib/audit/wording";
-
-/** Read far more often than written: the rendered page is kept until anything it shows changes. */
-export const middleware: Route.MiddlewareFunction[] = [pageCache];
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `${data.sheet.label} ${data.sheet.title} · Sinewright` : "Sheet · Sinewright" }];
 
