@@ -3,10 +3,12 @@ import tailwindcss from "@tailwindcss/vite";
 import { fileURLToPath } from "node:url";
 import { defineConfig } from "vite";
 
-export default defineConfig({
+export default defineConfig(({ isSsrBuild }) => ({
+  // The server build's entry is the Express app (server/app.ts), which imports the framework's build.
+  build: { rollupOptions: isSsrBuild ? { input: "./server/app.ts" } : undefined },
   plugins: [tailwindcss(), reactRouter()],
   resolve: {
     alias: { "~": fileURLToPath(new URL("./app", import.meta.url)) },
   },
   server: { host: "127.0.0.1" },
-});
+}));

@@ -1,7 +1,8 @@
 import { and, eq, isNull, lt, sql } from "drizzle-orm";
 import { hashApiKey } from "./api-keys";
-import { CLIENT_IP_HEADER } from "./auth";
+import type { RouterContextProvider } from "react-router";
 import { config } from "./config";
+import { clientAddressContext } from "./context";
 import { db } from "./db/client";
 import { apiKey, apiRateLimit } from "./db/schema";
 
@@ -40,7 +41,7 @@ async function sweepExpired(windowSeconds: number): Promise<void> {
 }
 
 /** A live API key is counted as itself; anything else (session, anonymous, a wrong key) as the client's address. */
-async function rateLimitKey(request: Request): Promise<string> {
+async function rateLimitKey(request: Request, clientAddress: string): Promise<string> {
   const header = request.headers.get("authorization");
   const secret = header?.toLowerCase().startsWith("bearer ") ? header.slice(7).trim() : "";
   if (secret) {
@@ -51,17 +52,17 @@ async function rateLimitKey(request: Request): Promise<string> {
       .limit(1);
     if (row) return `api-key:${row.id}`;
   }
-  return `client:${request.headers.get(CLIENT_IP_HEADER) || "unknown"}`;
+  return `client:${clientAddress || "unknown"}`;
 }
 
 /**
  * The API's rate limit, for every /api/v1/* request: throws a 429 JSON response with
  * Retry-After once a key or client has used up the window. Off with RATE_LIMITS=off.
  */
-export async function enforceApiRateLimit(request: Request): Promise<void> {
+export async function enforceApiRateLimit(request: Request, context: Readonly<RouterContextProvider>): Promise<void> {
   const cfg = config();
   if (cfg.RATE_LIMITS === "off" || !new URL(request.url).pathname.startsWith("/api/v1/")) return;
-  const decision = await consumeRateLimit(await rateLimitKey(request), cfg.API_RATE_LIMIT, cfg.API_RATE_WINDOW_SECONDS);
+  const decision = await consumeRateLimit(await rateLimitKey(request, context.get(clientAddressContext)), cfg.API_RATE_LIMIT, cfg.API_RATE_WINDOW_SECONDS);
   if (Math.random() < 0.01) await sweepExpired(cfg.API_RATE_WINDOW_SECONDS);
   if (decision.allowed) return;
   throw Response.json(

@@ -60,7 +60,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       controller.close();
     },
   });
-  return new Response(stream, { headers: { "Content-Type": "application/x-ndjson; charset=utf-8", "Cache-Control": "no-store", "X-Content-Type-Options": "nosniff" } });
+  return new Response(stream, { headers: { "Content-Type": "application/x-ndjson; charset=utf-8", "Cache-Control": "no-store" } });
 }
 
 function withUrl(attachment: AttachmentSummary, sheetLabel: string) {

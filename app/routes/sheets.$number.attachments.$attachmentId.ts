@@ -21,7 +21,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "Content-Type": opened.row.contentType,
       "Content-Length": String(opened.size || opened.row.size),
       "Content-Disposition": contentDisposition(opened.row.fileName),
-      "X-Content-Type-Options": "nosniff",
       "Cache-Control": "private, no-store",
       "Content-Security-Policy": "default-src 'none'; sandbox",
     },
