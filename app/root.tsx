@@ -1,11 +1,13 @@
 import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { identify } from "./.server/access";
 import { originGuard } from "./.server/origin-guard";
 import { enforceApiRateLimit } from "./.server/rate-limit";
 import { noteRoute } from "./.server/request-log";
 import "./app.css";
 
 export const middleware: Route.MiddlewareFunction[] = [
+  identify,
   async ({ request, pattern, context }, next) => {
     noteRoute(pattern);
     originGuard(request);

@@ -1,5 +1,5 @@
 import { and, asc, eq, isNull } from "drizzle-orm";
-import { redirect } from "react-router";
+import { createContext, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import { auth } from "./auth";
 import { db } from "./db/client";
 import { apiKey, member, organization, user } from "./db/schema";
@@ -59,7 +59,7 @@ export async function membershipsOf(userId: string): Promise<TeamMembership[]> {
 /** "Last used" is shown to the minute; refreshing it on every call would make every API read a write. */
 const LAST_USED_RESOLUTION_MS = 60_000;
 
-async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamId: string } | null> {
+async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamId: string; keyId: string } | null> {
   const header = request.headers.get("authorization");
   if (!header?.toLowerCase().startsWith("bearer ")) return null;
   const secret = header.slice(7).trim();
@@ -74,48 +74,61 @@ async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamI
   if (!row.lastUsedAt || Date.now() - row.lastUsedAt.getTime() > LAST_USED_RESOLUTION_MS) {
     await db().update(apiKey).set({ lastUsedAt: new Date() }).where(eq(apiKey.id, row.keyId));
   }
-  return { user: { id: row.id, name: row.name, email: row.email }, teamId: row.teamId };
+  return { user: { id: row.id, name: row.name, email: row.email }, teamId: row.teamId, keyId: row.keyId };
 }
 
-type SignedIn = { user: SignedInUser; activeTeamId: string | null; via: Member["via"] };
+/** Who is asking, found once per request by `identify`; null when nobody is signed in. */
+export interface Identity {
+  user: SignedInUser;
+  via: Member["via"];
+  /** The personal API key the request carried, if that is how it proved who it is. */
+  apiKeyId: string | null;
+  teams: TeamMembership[];
+  /** The team the request acts in: the session's active team, else the first; an API key's own team. */
+  team: TeamMembership | null;
+}
+
+type ReadContext = Readonly<RouterContextProvider>;
+const identityContext = createContext<Promise<Identity | null>>();
 
 /**
- * The layout's loader and the page's loader both ask who is signing in; one lookup
- * per request serves both. Keyed by the request object, so it lives exactly as long
- * as the request.
+ * Root middleware: finds who is asking once per request — a personal API key on /api/ routes,
+ * else better-auth's own session check (which reads, verifies and extends its cookie) — with
+ * their teams, and puts it in router context for the layouts, loaders and actions. Started
+ * here, awaited by whoever needs it first.
  */
-const signedInByRequest = new WeakMap<Request, Promise<SignedIn | null>>();
+export const identify: MiddlewareFunction<Response> = ({ request, context }, next) => {
+  const identity = lookUpIdentity(request);
+  identity.catch(() => {});
+  context.set(identityContext, identity);
+  return next();
+};
 
-/** The signed-in user and their session's active team, or null. Never throws for anonymous requests. */
-export function getSignedIn(request: Request): Promise<SignedIn | null> {
-  let lookup = signedInByRequest.get(request);
-  if (!lookup) {
-    lookup = lookUpSignedIn(request);
-    signedInByRequest.set(request, lookup);
-    lookup.catch(() => signedInByRequest.delete(request));
-  }
-  return lookup;
-}
-
-async function lookUpSignedIn(request: Request): Promise<SignedIn | null> {
-  if (isApiRequest(request)) {
-    const keyed = await fromApiKey(request);
-    if (keyed) {
-      noteSignedIn(keyed.user.id, "api-key");
-      return { user: keyed.user, activeTeamId: keyed.teamId, via: "api-key" };
-    }
+async function lookUpIdentity(request: Request): Promise<Identity | null> {
+  const keyed = isApiRequest(request) ? await fromApiKey(request) : null;
+  if (keyed) {
+    noteSignedIn(keyed.user.id, "api-key");
+    const teams = await membershipsOf(keyed.user.id);
+    return { user: keyed.user, via: "api-key", apiKeyId: keyed.keyId, teams, team: teams.find((t) => t.teamId === keyed.teamId) ?? null };
   }
   const session = await auth().api.getSession({ headers: request.headers });
   if (!session) return null;
   const { id, name, email } = session.user;
   noteSignedIn(id, "session");
-  return { user: { id, name, email }, activeTeamId: session.session.activeOrganizationId ?? null, via: "session" };
+  const teams = await membershipsOf(id);
+  const team = teams.find((t) => t.teamId === session.session.activeOrganizationId) ?? teams[0] ?? null;
+  return { user: { id, name, email }, via: "session", apiKeyId: null, teams, team };
 }
 
-export async function requireUser(request: Request): Promise<SignedInUser> {
-  const signedIn = await getSignedIn(request);
-  if (!signedIn) throw unauthorized(request);
-  return signedIn.user;
+/** Who is asking, or null; never throws for anonymous requests. */
+export function identityOf(context: ReadContext): Promise<Identity | null> {
+  return context.get(identityContext);
+}
+
+export async function requireUser(request: Request, context: ReadContext): Promise<SignedInUser> {
+  const identity = await identityOf(context);
+  if (!identity) throw unauthorized(request);
+  return identity.user;
 }
 
 /**
@@ -123,11 +136,10 @@ export async function requireUser(request: Request): Promise<SignedInUser> {
  * at least `minimum` role there. Throws a redirect (pages) or 401 JSON (API) for
  * anonymous callers, and 403 when the role is too weak.
  */
-export async function requireMember(request: Request, minimum: Role = "viewer"): Promise<Member> {
-  const signedIn = await getSignedIn(request);
-  if (!signedIn) throw unauthorized(request);
-  const teams = await membershipsOf(signedIn.user.id);
-  const team = teams.find((t) => t.teamId === signedIn.activeTeamId) ?? (signedIn.via === "session" ? teams[0] : undefined);
+export async function requireMember(request: Request, context: ReadContext, minimum: Role = "viewer"): Promise<Member> {
+  const identity = await identityOf(context);
+  if (!identity) throw unauthorized(request);
+  const { team } = identity;
   if (!team) {
     if (isApiRequest(request)) throw forbidden(request, "You are not a member of any team.");
     throw redirect("/teams/new");
@@ -135,5 +147,5 @@ export async function requireMember(request: Request, minimum: Role = "viewer"):
   if (!roleAtLeast(team.role, minimum)) {
     throw forbidden(request, `This needs the ${minimum} role or higher; you are ${team.role} in ${team.teamName}.`);
   }
-  return { user: signedIn.user, team, teams, via: signedIn.via };
+  return { user: identity.user, team, teams: identity.teams, via: identity.via };
 }

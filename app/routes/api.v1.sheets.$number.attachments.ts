@@ -7,8 +7,8 @@ import type { AttachmentSummary } from "~/lib/attachments/files";
 import { getSheet } from "~/.server/sheets";
 
 /** GET /api/v1/sheets/:number/attachments — the sheet's attachments, with each capture's channels. Viewers and up. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
   if (!sheet) return apiError(404, `No sheet ${params.number} in this team.`);
@@ -23,8 +23,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
  * (`{"phase":"receiving","bytes":…,"rows":…}`) and ends with `{"attachment":…}` or
  * `{"error":…,"status":…}`, for progress bars.
  */
-export async function action({ request, params }: Route.ActionArgs) {
-  const me = await requireMember(request, "engineer");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "engineer");
   if (request.method !== "POST") return methodNotAllowed("POST");
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;

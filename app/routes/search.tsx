@@ -19,8 +19,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Search · Sinewright" }
 /** A hit as the API sends it (sheets and project documents). */
 type Hit = ReturnType<typeof hitView>;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const params = Object.fromEntries(new URL(request.url).searchParams);
   const query = searchQuery.parse(params);
   const [result, projects, authors] = await Promise.all([runSearch(me, query), listProjects(me.team.teamId), sheetAuthors(me.team.teamId)]);

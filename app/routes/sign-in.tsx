@@ -3,15 +3,15 @@ import type { Route } from "./+types/sign-in";
 import { AuthFrame } from "~/components/auth-frame";
 import { FormError, Notice, TextField } from "~/components/form-fields";
 import { fieldErrors, safeNext, signInForm, type FieldErrors } from "~/lib/forms/account";
-import { getSignedIn } from "~/.server/access";
+import { identityOf } from "~/.server/access";
 import { callAuthEndpoint } from "~/.server/auth";
 import { actionRetryAfter, authErrorMessage, cookiesFrom, retryAfterHeaders } from "~/.server/auth-response";
 
 export const headers = actionRetryAfter;
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const signedIn = await getSignedIn(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const signedIn = await identityOf(context);
   if (signedIn) throw redirect(safeNext(new URL(request.url).searchParams.get("next")));
   return null;
 }

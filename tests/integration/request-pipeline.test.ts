@@ -4,7 +4,10 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { freePort, spawnServer, testSecret, type SpawnedServer } from "../support/app-server";
 import { BASE_URL, Visitor } from "../support/http";
 
-/** A POST whose body is sent slowly, in 64 KB pieces, until the server answers (or `total` bytes went out). */
+/**
+ * A POST whose body is sent in 64 KB pieces, a few milliseconds apart, until the server answers (or
+ * `total` bytes went out): how many bytes had gone out by then shows whether the server waited for the body.
+ */
 function postUntilAnswered(url: string, headers: Record<string, string>, total: number) {
   return new Promise<{ status: number; body: string; sentBeforeAnswer: number }>((resolve, reject) => {
     let sent = 0;
@@ -20,11 +23,10 @@ function postUntilAnswered(url: string, headers: Record<string, string>, total: 
     request.on("error", (error) => (answered ? undefined : reject(error)));
     const piece = Buffer.alloc(64 * 1024, "a");
     const pump = () => {
-      while (!answered && sent < total) {
-        sent += piece.length;
-        if (!request.write(piece)) return void request.once("drain", pump);
-      }
-      if (!answered) request.end();
+      if (answered) return;
+      if (sent >= total) return void request.end();
+      sent += piece.length;
+      request.write(piece, () => setTimeout(pump, 5));
     };
     pump();
   });
