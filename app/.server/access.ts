@@ -89,18 +89,17 @@ export interface Identity {
 }
 
 type ReadContext = Readonly<RouterContextProvider>;
-const identityContext = createContext<Promise<Identity | null>>();
+const identityContext = createContext<() => Promise<Identity | null>>();
 
 /**
- * Root middleware: finds who is asking once per request — a personal API key on /api/ routes,
- * else better-auth's own session check (which reads, verifies and extends its cookie) — with
- * their teams, and puts it in router context for the layouts, loaders and actions. Started
- * here, awaited by whoever needs it first.
+ * Root middleware: makes who is asking findable once per request — a personal API key on /api/
+ * routes, else better-auth's own session check (which reads, verifies and extends its cookie) —
+ * with their teams, through router context for the layouts, loaders and actions. Looked up when
+ * first asked (the health route never asks), then shared by everyone answering the request.
  */
 export const identify: MiddlewareFunction<Response> = ({ request, context }, next) => {
-  const identity = lookUpIdentity(request);
-  identity.catch(() => {});
-  context.set(identityContext, identity);
+  let identity: Promise<Identity | null> | undefined;
+  context.set(identityContext, () => (identity ??= lookUpIdentity(request)));
   return next();
 };
 
@@ -122,7 +121,7 @@ async function lookUpIdentity(request: Request): Promise<Identity | null> {
 
 /** Who is asking, or null; never throws for anonymous requests. */
 export function identityOf(context: ReadContext): Promise<Identity | null> {
-  return context.get(identityContext);
+  return context.get(identityContext)();
 }
 
 export async function requireUser(request: Request, context: ReadContext): Promise<SignedInUser> {
