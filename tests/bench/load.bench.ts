@@ -188,7 +188,7 @@ function report(figures: Figures[], firstViewMs: Map<string, number>) {
     const lines: string[] = [];
     if (health) {
       lines.push(`requests/s ${f.requestsPerSecond.toFixed(0)} ≥ 50 % of health ${(health.requestsPerSecond / 2).toFixed(0)} — ${mark(f.requestsPerSecond >= health.requestsPerSecond / 2)}`);
-      if (isPage) lines.push(`p99 ${f.p99} ms ≤ 2 × health p99 ${2 * health.p99} ms — ${mark(f.p99 <= 2 * health.p99)}`);
+      if (isPage) lines.push(`p99 ${f.p99} ms ≤ 2 × health p99 ${2 * health.p99} ms — ${mark(f.requests > 0 && f.p99 <= 2 * health.p99)}`);
     }
     lines.push(`errors ${f.errors} = 0 — ${mark(f.errors === 0)}`);
     const cpuTarget = isPage ? 10 : 2.5;
