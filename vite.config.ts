@@ -4,10 +4,12 @@ import { fileURLToPath } from "node:url";
 import { defineConfig } from "vite";
 import { calculatorCatalogue, chunkModules } from "./scripts/vite-plugins";
 
-export default defineConfig({
+export default defineConfig(({ isSsrBuild }) => ({
+  // The server build's entry is the Express app (server/app.ts), which imports the framework's build.
+  build: { rollupOptions: isSsrBuild ? { input: "./server/app.ts" } : undefined },
   plugins: [tailwindcss(), reactRouter(), calculatorCatalogue(), chunkModules(fileURLToPath(new URL(".", import.meta.url)))],
   resolve: {
     alias: { "~": fileURLToPath(new URL("./app", import.meta.url)) },
   },
   server: { host: "127.0.0.1" },
-});
+}));

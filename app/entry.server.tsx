@@ -6,25 +6,23 @@ import { renderToPipeableStream } from "react-dom/server";
 import { ServerRouter, type EntryContext, type HandleErrorFunction } from "react-router";
 import { loggableError, logger } from "./.server/logger";
 import { currentRequestLog, redactUrl } from "./.server/request-log";
-import { applySecurityHeaders, isSecureRequest, securityHeaders } from "./.server/security-headers";
-import { startBackgroundWork, stopBackgroundWork } from "./.server/lifecycle";
+import { pagePolicy } from "./.server/security-headers";
 
 export const streamTimeout = 5_000;
 
-/** Called by server.js before it listens: migrations and the outbox worker. */
-export { startBackgroundWork as prepareServer, stopBackgroundWork as stopServer };
-/** For server.js: the validated settings, what its request log lines say, and every response's security headers. */
-export { config as serverConfig, ConfigError } from "./.server/config";
-export { logger } from "./.server/logger";
-export { createRouteMatcher, redactUrl, runWithRequestLog } from "./.server/request-log";
-export { securityHeaders };
-/** For server.js: cached sheet and document pages, answered before the framework builds a request. */
-export { cachedPageAnswer, cachedPagePatterns } from "./.server/page-cache";
+/**
+ * Pages and data answers are made for the person asking: no shared cache may keep them, and a
+ * browser keeps none either (back and forward still work). A route that sets its own says so.
+ */
+function keepPrivate(headers: Headers): void {
+  if (!headers.has("Cache-Control")) headers.set("Cache-Control", "private, no-store");
+}
 
 export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext) {
   // One nonce per response: the framework's own inline scripts carry it; nothing else may run inline.
   const nonce = randomBytes(16).toString("base64");
-  applySecurityHeaders(responseHeaders, { nonce, html: true, secure: isSecureRequest(request) });
+  responseHeaders.set("Content-Security-Policy", pagePolicy(nonce));
+  keepPrivate(responseHeaders);
   return new Promise((resolve, reject) => {
     let shellRendered = false;
     const userAgent = request.headers.get("user-agent");
@@ -44,8 +42,6 @@ export default function handleRequest(request: Request, responseStatusCode: numb
       },
       onError(error: unknown) {
         responseStatusCode = 500;
-        const log = currentRequestLog();
-        if (log) log.renderFailed = true;
         // A client that went away mid-page (closed tab, a benchmark's last connections) is not a server error.
         if (shellRendered && !request.signal.aborted) logger().error({ err: loggableError(error), url: redactUrl(request.url) }, "rendering failed after the page started");
       },
@@ -54,8 +50,8 @@ export default function handleRequest(request: Request, responseStatusCode: numb
   });
 }
 
-export function handleDataRequest(response: Response, { request }: { request: Request }) {
-  applySecurityHeaders(response.headers, { html: false, secure: isSecureRequest(request) });
+export function handleDataRequest(response: Response) {
+  keepPrivate(response.headers);
   return response;
 }
 

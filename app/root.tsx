@@ -1,16 +1,17 @@
 import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { identify } from "./.server/access";
 import { originGuard } from "./.server/origin-guard";
-import { startOutboxWorker } from "./.server/mail/outbox";
 import { enforceApiRateLimit } from "./.server/rate-limit";
+import { noteRoute } from "./.server/request-log";
 import "./app.css";
 
 export const middleware: Route.MiddlewareFunction[] = [
-  async ({ request }, next) => {
+  identify,
+  async ({ request, pattern, context }, next) => {
+    noteRoute(pattern);
     originGuard(request);
-    await enforceApiRateLimit(request);
-    // In production server.js starts the worker; under `npm run dev` the first request does.
-    startOutboxWorker();
+    await enforceApiRateLimit(request, context);
     return next();
   },
 ];

@@ -30,8 +30,7 @@ try {
   await new Promise(() => {});
 }
 
-const server = dev
-  ? spawn("npx", ["react-router", "dev", "--port", env.PORT], { cwd: root, env: { ...process.env, ...env }, stdio: "inherit" })
-  : spawn(process.execPath, ["server.js"], { cwd: root, env: { ...process.env, ...env }, stdio: "inherit" });
+// The same server either way; with NODE_ENV=development it takes the app from Vite (hot reload).
+const server = spawn(process.execPath, ["server.js"], { cwd: root, env: { ...process.env, ...env }, stdio: "inherit" });
 children.push(server);
 server.on("exit", (code) => stopAll(code ?? 0));

@@ -1,7 +1,5 @@
-import { createHmac, timingSafeEqual } from "node:crypto";
 import { and, asc, eq, isNull } from "drizzle-orm";
-import { parseCookies } from "better-auth/cookies";
-import { redirect } from "react-router";
+import { createContext, redirect, type MiddlewareFunction, type RouterContextProvider } from "react-router";
 import { auth } from "./auth";
 import { db } from "./db/client";
 import { apiKey, member, organization, user } from "./db/schema";
@@ -61,7 +59,7 @@ export async function membershipsOf(userId: string): Promise<TeamMembership[]> {
 /** "Last used" is shown to the minute; refreshing it on every call would make every API read a write. */
 const LAST_USED_RESOLUTION_MS = 60_000;
 
-async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamId: string } | null> {
+async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamId: string; keyId: string } | null> {
   const header = request.headers.get("authorization");
   if (!header?.toLowerCase().startsWith("bearer ")) return null;
   const secret = header.slice(7).trim();
@@ -76,69 +74,60 @@ async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamI
   if (!row.lastUsedAt || Date.now() - row.lastUsedAt.getTime() > LAST_USED_RESOLUTION_MS) {
     await db().update(apiKey).set({ lastUsedAt: new Date() }).where(eq(apiKey.id, row.keyId));
   }
-  return { user: { id: row.id, name: row.name, email: row.email }, teamId: row.teamId };
+  return { user: { id: row.id, name: row.name, email: row.email }, teamId: row.teamId, keyId: row.keyId };
 }
 
-type SignedIn = { user: SignedInUser; activeTeamId: string | null; via: Member["via"] };
+/** Who is asking, found once per request by `identify`; null when nobody is signed in. */
+export interface Identity {
+  user: SignedInUser;
+  via: Member["via"];
+  /** The personal API key the request carried, if that is how it proved who it is. */
+  apiKeyId: string | null;
+  teams: TeamMembership[];
+  /** The team the request acts in: the session's active team, else the first; an API key's own team. */
+  team: TeamMembership | null;
+}
+
+type ReadContext = Readonly<RouterContextProvider>;
+const identityContext = createContext<() => Promise<Identity | null>>();
 
 /**
- * The layout's loader and the page's loader both ask who is signing in; one lookup
- * per request serves both. Keyed by the request object, so it lives exactly as long
- * as the request.
+ * Root middleware: makes who is asking findable once per request — a personal API key on /api/
+ * routes, else better-auth's own session check (which reads, verifies and extends its cookie) —
+ * with their teams, through router context for the layouts, loaders and actions. Looked up when
+ * first asked (the health route never asks), then shared by everyone answering the request.
  */
-const signedInByRequest = new WeakMap<Request, Promise<SignedIn | null>>();
+export const identify: MiddlewareFunction<Response> = ({ request, context }, next) => {
+  let identity: Promise<Identity | null> | undefined;
+  context.set(identityContext, () => (identity ??= lookUpIdentity(request)));
+  return next();
+};
 
-/** The signed-in user and their session's active team, or null. Never throws for anonymous requests. */
-export function getSignedIn(request: Request): Promise<SignedIn | null> {
-  let lookup = signedInByRequest.get(request);
-  if (!lookup) {
-    lookup = lookUpSignedIn(request);
-    signedInByRequest.set(request, lookup);
-    lookup.catch(() => signedInByRequest.delete(request));
-  }
-  return lookup;
-}
-
-async function lookUpSignedIn(request: Request): Promise<SignedIn | null> {
-  if (isApiRequest(request)) {
-    const keyed = await fromApiKey(request);
-    if (keyed) {
-      noteSignedIn(keyed.user.id, "api-key");
-      return { user: keyed.user, activeTeamId: keyed.teamId, via: "api-key" };
-    }
+async function lookUpIdentity(request: Request): Promise<Identity | null> {
+  const keyed = isApiRequest(request) ? await fromApiKey(request) : null;
+  if (keyed) {
+    noteSignedIn(keyed.user.id, "api-key");
+    const teams = await membershipsOf(keyed.user.id);
+    return { user: keyed.user, via: "api-key", apiKeyId: keyed.keyId, teams, team: teams.find((t) => t.teamId === keyed.teamId) ?? null };
   }
   const session = await auth().api.getSession({ headers: request.headers });
   if (!session) return null;
   const { id, name, email } = session.user;
   noteSignedIn(id, "session");
-  return { user: { id, name, email }, activeTeamId: session.session.activeOrganizationId ?? null, via: "session" };
+  const teams = await membershipsOf(id);
+  const team = teams.find((t) => t.teamId === session.session.activeOrganizationId) ?? teams[0] ?? null;
+  return { user: { id, name, email }, via: "session", apiKeyId: null, teams, team };
 }
 
-let sessionCookie: Promise<{ name: string; secret: string }> | undefined;
-
-/**
- * The session token a signed session cookie carries, checked exactly as better-auth signs it
- * (`token.` + base64 HMAC-SHA256 of the token under the auth secret), or null. It says nothing
- * about whether the session still exists: the caller's query must ask. Only for the page cache's
- * quick look-up (app/.server/page-cache.ts), which must cost less than the page it saves;
- * everything else asks better-auth itself (getSignedIn).
- */
-export async function signedSessionToken(cookieHeader: string): Promise<string | null> {
-  sessionCookie ??= auth().$context.then((context) => ({ name: context.authCookies.sessionToken.name, secret: context.secret }));
-  const { name, secret } = await sessionCookie;
-  const value = parseCookies(cookieHeader).get(name);
-  const dot = value?.lastIndexOf(".") ?? -1;
-  if (!value || dot < 1) return null;
-  const token = value.slice(0, dot);
-  const given = Buffer.from(value.slice(dot + 1), "base64");
-  const expected = createHmac("sha256", secret).update(token).digest();
-  return given.length === expected.length && timingSafeEqual(given, expected) ? token : null;
+/** Who is asking, or null; never throws for anonymous requests. */
+export function identityOf(context: ReadContext): Promise<Identity | null> {
+  return context.get(identityContext)();
 }
 
-export async function requireUser(request: Request): Promise<SignedInUser> {
-  const signedIn = await getSignedIn(request);
-  if (!signedIn) throw unauthorized(request);
-  return signedIn.user;
+export async function requireUser(request: Request, context: ReadContext): Promise<SignedInUser> {
+  const identity = await identityOf(context);
+  if (!identity) throw unauthorized(request);
+  return identity.user;
 }
 
 /**
@@ -146,11 +135,10 @@ export async function requireUser(request: Request): Promise<SignedInUser> {
  * at least `minimum` role there. Throws a redirect (pages) or 401 JSON (API) for
  * anonymous callers, and 403 when the role is too weak.
  */
-export async function requireMember(request: Request, minimum: Role = "viewer"): Promise<Member> {
-  const signedIn = await getSignedIn(request);
-  if (!signedIn) throw unauthorized(request);
-  const teams = await membershipsOf(signedIn.user.id);
-  const team = teams.find((t) => t.teamId === signedIn.activeTeamId) ?? (signedIn.via === "session" ? teams[0] : undefined);
+export async function requireMember(request: Request, context: ReadContext, minimum: Role = "viewer"): Promise<Member> {
+  const identity = await identityOf(context);
+  if (!identity) throw unauthorized(request);
+  const { team } = identity;
   if (!team) {
     if (isApiRequest(request)) throw forbidden(request, "You are not a member of any team.");
     throw redirect("/teams/new");
@@ -158,5 +146,5 @@ export async function requireMember(request: Request, minimum: Role = "viewer"):
   if (!roleAtLeast(team.role, minimum)) {
     throw forbidden(request, `This needs the ${minimum} role or higher; you are ${team.role} in ${team.teamName}.`);
   }
-  return { user: signedIn.user, team, teams, via: signedIn.via };
+  return { user: identity.user, team, teams: identity.teams, via: identity.via };
 }

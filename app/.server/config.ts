@@ -38,8 +38,6 @@ const schema = z.object({
   DEV_PAGES: z.enum(["0", "1"], required("0 or 1")).default("0"),
   /** "off" only for test and benchmark servers that sign in hundreds of times a minute from one address. */
   RATE_LIMITS: z.enum(["on", "off"], required("on or off")).default("on"),
-  /** Memory each server gives to rendered sheet and document pages (app/.server/page-cache.ts); 0 turns the cache off. */
-  PAGE_CACHE_MB: z.coerce.number(required("must be a whole number of megabytes, e.g. 64 (0 turns the page cache off)")).int("must be a whole number of megabytes, e.g. 64 (0 turns the page cache off)").min(0, "must be 0 or more megabytes").max(65_536, "must be at most 65536 megabytes").default(64),
   /** API requests allowed per API key (or per client without one) in each window. */
   API_RATE_LIMIT: z.coerce.number(required("must be a whole number of requests, e.g. 600")).int("must be a whole number of requests, e.g. 600").min(1, "must be at least 1").default(600),
   API_RATE_WINDOW_SECONDS: z.coerce

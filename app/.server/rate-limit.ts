@@ -1,9 +1,10 @@
-import { and, eq, isNull, lt, sql } from "drizzle-orm";
-import { hashApiKey } from "./api-keys";
-import { CLIENT_IP_HEADER } from "./auth";
+import { lt, sql } from "drizzle-orm";
+import { identityOf } from "./access";
+import type { RouterContextProvider } from "react-router";
 import { config } from "./config";
+import { clientAddressContext } from "./context";
 import { db } from "./db/client";
-import { apiKey, apiRateLimit } from "./db/schema";
+import { apiRateLimit } from "./db/schema";
 
 export interface RateLimitDecision {
   allowed: boolean;
@@ -40,28 +41,19 @@ async function sweepExpired(windowSeconds: number): Promise<void> {
 }
 
 /** A live API key is counted as itself; anything else (session, anonymous, a wrong key) as the client's address. */
-async function rateLimitKey(request: Request): Promise<string> {
-  const header = request.headers.get("authorization");
-  const secret = header?.toLowerCase().startsWith("bearer ") ? header.slice(7).trim() : "";
-  if (secret) {
-    const [row] = await db()
-      .select({ id: apiKey.id })
-      .from(apiKey)
-      .where(and(eq(apiKey.secretHash, hashApiKey(secret)), isNull(apiKey.revokedAt)))
-      .limit(1);
-    if (row) return `api-key:${row.id}`;
-  }
-  return `client:${request.headers.get(CLIENT_IP_HEADER) || "unknown"}`;
+async function rateLimitKey(context: Readonly<RouterContextProvider>): Promise<string> {
+  const keyId = (await identityOf(context))?.apiKeyId;
+  return keyId ? `api-key:${keyId}` : `client:${context.get(clientAddressContext) || "unknown"}`;
 }
 
 /**
  * The API's rate limit, for every /api/v1/* request: throws a 429 JSON response with
  * Retry-After once a key or client has used up the window. Off with RATE_LIMITS=off.
  */
-export async function enforceApiRateLimit(request: Request): Promise<void> {
+export async function enforceApiRateLimit(request: Request, context: Readonly<RouterContextProvider>): Promise<void> {
   const cfg = config();
   if (cfg.RATE_LIMITS === "off" || !new URL(request.url).pathname.startsWith("/api/v1/")) return;
-  const decision = await consumeRateLimit(await rateLimitKey(request), cfg.API_RATE_LIMIT, cfg.API_RATE_WINDOW_SECONDS);
+  const decision = await consumeRateLimit(await rateLimitKey(context), cfg.API_RATE_LIMIT, cfg.API_RATE_WINDOW_SECONDS);
   if (Math.random() < 0.01) await sweepExpired(cfg.API_RATE_WINDOW_SECONDS);
   if (decision.allowed) return;
   throw Response.json(

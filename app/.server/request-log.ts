@@ -10,8 +10,8 @@ export interface RequestLogContext {
   requestId?: string;
   userId?: string;
   via?: "session" | "api-key";
-  /** Rendering failed after the page started streaming: such a page is never cached. */
-  renderFailed?: boolean;
+  /** The route pattern that answered (e.g. `/sheets/:number`), as the framework matched it. */
+  route?: string;
 }
 
 const storage = new AsyncLocalStorage<RequestLogContext>();
@@ -26,6 +26,12 @@ export function currentRequestLog(): RequestLogContext | undefined {
   return storage.getStore();
 }
 
+/** Called by the root middleware with the framework's matched pattern, so logs group by route rather than by raw URL. */
+export function noteRoute(pattern: string): void {
+  const context = storage.getStore();
+  if (context) context.route = pattern.startsWith("/") ? pattern : `/${pattern}`;
+}
+
 /** Called by the access check once it knows who is asking. */
 export function noteSignedIn(userId: string, via: RequestLogContext["via"]): void {
   const context = storage.getStore();
@@ -33,63 +39,6 @@ export function noteSignedIn(userId: string, via: RequestLogContext["via"]): voi
     context.userId = userId;
     context.via = via;
   }
-}
-
-interface BuildRoute {
-  id: string;
-  parentId?: string;
-  path?: string;
-  index?: boolean;
-}
-
-/**
- * The route pattern a URL matched (e.g. `/sheets/:number`), from the server
- * build's route manifest, so logs group by route rather than by raw URL. Single-fetch
- * data requests (`/sheets/CS-0001.data`) count as their page. The manifest is
- * flattened and ranked once, as React Router ranks it; a request then costs one
- * `matchRoutes` over the prepared branches.
- */
-export function createRouteMatcher(manifest: Record<string, BuildRoute | undefined>): (pathname: string) => string {
-  const children = new Map<string | undefined, BuildRoute[]>();
-  for (const route of Object.values(manifest)) {
-    if (!route) continue;
-    const siblings = children.get(route.parentId) ?? [];
-    siblings.push(route);
-    children.set(route.parentId, siblings);
-  }
-  // Leaf routes only, each with its full path: what a URL can end on.
-  const patterns: string[] = [];
-  const walk = (parentId: string | undefined, prefix: string) => {
-    for (const route of children.get(parentId) ?? []) {
-      const full = route.path ? `${prefix}/${route.path}` : prefix;
-      const kids = children.get(route.id);
-      if (kids?.length) walk(route.id, full);
-      if (route.index || route.path || !kids?.length) patterns.push(full.replace(/\/+/g, "/") || "/");
-    }
-  };
-  walk(undefined, "");
-  const compiled = [...new Set(patterns)].map((pattern) => ({ pattern, score: patternScore(pattern), regex: patternRegex(pattern) }));
-  compiled.sort((a, b) => b.score - a.score);
-  return (pathname) => {
-    const page = pathname === "/_root.data" ? "/" : pathname.replace(/\.data$/, "");
-    return compiled.find((c) => c.regex.test(page))?.pattern ?? "unmatched";
-  };
-}
-
-/** React Router's ranking: static segments beat dynamic ones, a splat comes last. */
-function patternScore(pattern: string): number {
-  const segments = pattern.split("/").filter(Boolean);
-  let score = segments.length + (segments.includes("*") ? -2 : 0);
-  for (const segment of segments) score += segment === "*" ? 0 : segment.startsWith(":") ? 3 : 10;
-  return score;
-}
-
-function patternRegex(pattern: string): RegExp {
-  const segments = pattern.split("/").filter(Boolean);
-  const body = segments
-    .map((segment) => (segment === "*" ? "(?:/.*)?" : segment.startsWith(":") ? "/[^/]+" : `/${segment.replace(/[.+?^${}()|[\]\\]/g, "\\$&")}`))
-    .join("");
-  return new RegExp(`^${body}/?$`, "i");
 }
 
 const SECRET_QUERY = /token|password|secret|key|code|signature|session|invitation/i;

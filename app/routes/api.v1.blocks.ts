@@ -7,8 +7,8 @@ import { BlockQueryError } from "~/.server/search";
 import { BlockSearchInputError, runBlockSearch } from "~/.server/search-query";
 
 /** GET /api/v1/blocks?calculator=lc-filter&field=f0&min=1 kHz&max=3 kHz&verified=1 — blocks whose value lies in the range. */
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const parsed = blockQuery.safeParse(Object.fromEntries(new URL(request.url).searchParams));
   if (!parsed.success) return apiError(400, "The block query needs fixing.", parsed.error.issues.map((i) => ({ field: String(i.path[0] ?? "query"), message: i.message })));
   try {
@@ -31,7 +31,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   }
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  await requireMember(request, "viewer");
+export async function action({ request, context }: Route.ActionArgs) {
+  await requireMember(request, context, "viewer");
   return methodNotAllowed("GET");
 }

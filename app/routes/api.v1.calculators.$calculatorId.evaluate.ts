@@ -7,8 +7,8 @@ import { apiError, methodNotAllowed, readJson, resultsJson } from "~/.server/api
 
 
 /** POST /api/v1/calculators/:id/evaluate with { inputs } → { calculator, engineVersion, results, warnings }. */
-export async function action({ request, params }: Route.ActionArgs) {
-  await requireMember(request, "viewer");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  await requireMember(request, context, "viewer");
   if (request.method !== "POST") return methodNotAllowed("POST");
   if (!getCalculator(params.calculatorId)) return apiError(404, `No calculator "${params.calculatorId}". GET /api/v1/calculators lists them.`);
   const { inputs } = await readJson(request, calculatorInputsBody);
@@ -17,7 +17,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   return resultsJson({ calculator: outcome.calculator, engineVersion: outcome.engineVersion, results: outcome.results, warnings: outcome.warnings });
 }
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireMember(request, context, "viewer");
   return methodNotAllowed("POST");
 }

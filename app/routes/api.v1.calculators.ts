@@ -4,12 +4,12 @@ import { requireMember } from "~/.server/access";
 import { methodNotAllowed } from "~/.server/api";
 
 /** GET /api/v1/calculators — every calculator with its inputs (units, ranges, defaults) and outputs. */
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireMember(request, context, "viewer");
   return Response.json(catalogue());
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  await requireMember(request, "viewer");
+export async function action({ request, context }: Route.ActionArgs) {
+  await requireMember(request, context, "viewer");
   return methodNotAllowed("GET");
 }

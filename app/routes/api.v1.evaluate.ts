@@ -5,8 +5,8 @@ import { requireMember } from "~/.server/access";
 import { apiError, methodNotAllowed, readJson, resultsJson } from "~/.server/api";
 
 /** POST /api/v1/evaluate with { blocks } → each block's results or field errors, in dependency order. */
-export async function action({ request }: Route.ActionArgs) {
-  await requireMember(request, "viewer");
+export async function action({ request, context }: Route.ActionArgs) {
+  await requireMember(request, context, "viewer");
   if (request.method !== "POST") return methodNotAllowed("POST");
   const { blocks } = await readJson(request, evaluateBody);
   const evaluation = evaluateSheet(blocks);
@@ -14,7 +14,7 @@ export async function action({ request }: Route.ActionArgs) {
   return resultsJson(evaluation);
 }
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireMember(request, context, "viewer");
   return methodNotAllowed("POST");
 }

@@ -5,8 +5,8 @@ import { methodNotAllowed, readQuery } from "~/.server/api";
 import { hitView, runSearch } from "~/.server/search-query";
 
 /** GET /api/v1/search?q=… — the team's sheets ranked for the query, with highlighted snippets as data. */
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const query = readQuery(request, searchQuery);
   const result = await runSearch(me, query);
   if (!result) return Response.json({ query: "", hits: [], total: 0, engine: null });
@@ -20,7 +20,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   });
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  await requireMember(request, "viewer");
+export async function action({ request, context }: Route.ActionArgs) {
+  await requireMember(request, context, "viewer");
   return methodNotAllowed("GET");
 }

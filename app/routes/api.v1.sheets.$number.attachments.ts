@@ -8,8 +8,8 @@ import { loggableError, logger } from "~/.server/logger";
 import { getSheet } from "~/.server/sheets";
 
 /** GET /api/v1/sheets/:number/attachments — the sheet's attachments, with each capture's channels. Viewers and up. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
   if (!sheet) return apiError(404, `No sheet ${params.number} in this team.`);
@@ -24,8 +24,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
  * (`{"phase":"receiving","bytes":…,"rows":…}`) and ends with `{"attachment":…}` or
  * `{"error":…,"status":…}`, for progress bars.
  */
-export async function action({ request, params }: Route.ActionArgs) {
-  const me = await requireMember(request, "engineer");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "engineer");
   if (request.method !== "POST") return methodNotAllowed("POST");
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
@@ -61,7 +61,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       controller.close();
     },
   });
-  return new Response(stream, { headers: { "Content-Type": "application/x-ndjson; charset=utf-8", "Cache-Control": "no-store", "X-Content-Type-Options": "nosniff" } });
+  return new Response(stream, { headers: { "Content-Type": "application/x-ndjson; charset=utf-8", "Cache-Control": "no-store" } });
 }
 
 function withUrl(attachment: AttachmentSummary, sheetLabel: string) {

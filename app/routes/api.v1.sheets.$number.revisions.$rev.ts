@@ -6,8 +6,8 @@ import { checkIntegrity, revisionReview } from "~/.server/review";
 import { getRevision, getSheet, revisionBlocks } from "~/.server/sheets";
 
 /** GET /api/v1/sheets/:number/revisions/:rev — one revision's inputs, results, state, hash and stamp, for scripts and citations. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
   if (!sheet) return apiError(404, `No sheet ${params.number} in this team.`);
@@ -35,7 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   });
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  await requireMember(request, "viewer");
+export async function action({ request, context }: Route.ActionArgs) {
+  await requireMember(request, context, "viewer");
   return methodNotAllowed("GET");
 }

@@ -2,17 +2,24 @@ import { useEffect } from "react";
 import { Form, NavLink, Outlet, redirect, useLoaderData, useNavigate } from "react-router";
 import type { Route } from "./+types/app-layout";
 import { Wordmark } from "~/components/brand-mark";
-import { getSignedIn, membershipsOf } from "~/.server/access";
+import { identityOf } from "~/.server/access";
 import { unreadCount } from "~/.server/review";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const signedIn = await getSignedIn(request);
-  const url = new URL(request.url);
-  if (!signedIn) throw redirect(`/sign-in?next=${encodeURIComponent(url.pathname + url.search)}`);
-  const teams = await membershipsOf(signedIn.user.id);
-  const team = teams.find((t) => t.teamId === signedIn.activeTeamId) ?? teams[0] ?? null;
-  if (!team && url.pathname !== "/teams/new") throw redirect("/teams/new");
-  return { user: signedIn.user, team, teams, unread: team ? await unreadCount(signedIn.user.id, team.teamId) : 0 };
+/** Every page inside the app shell is for a signed-in member: the rest go to sign in, or to start a team first. */
+export const middleware: Route.MiddlewareFunction[] = [
+  async ({ request, context }, next) => {
+    const identity = await identityOf(context);
+    const url = new URL(request.url);
+    const page = url.pathname.replace(/\.data$/, "");
+    if (!identity) throw redirect(`/sign-in?next=${encodeURIComponent(page + url.search)}`);
+    if (!identity.team && page !== "/teams/new") throw redirect("/teams/new");
+    return next();
+  },
+];
+
+export async function loader({ context }: Route.LoaderArgs) {
+  const { user, team, teams } = (await identityOf(context))!;
+  return { user, team, teams, unread: team ? await unreadCount(user.id, team.teamId) : 0 };
 }
 
 const NAV = [

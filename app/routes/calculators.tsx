@@ -28,8 +28,8 @@ function inputSummary(spec: InputSpec): { kind: string; unit: string; range: str
 }
 
 /** The reference for every calculator, generated from the registry so it cannot drift from the engine. */
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireMember(request, context, "viewer");
   const { engineVersion, calculators } = catalogue();
   return {
     engineVersion,

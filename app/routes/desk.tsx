@@ -8,8 +8,8 @@ import { listNotifications, markNotificationsRead, waitingForMe } from "~/.serve
 export const meta: Route.MetaFunction = () => [{ title: "Your desk · Sinewright" }];
 
 /** What needs the member: revisions waiting for their check, and notices about their own work. */
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const [waiting, notices] = await Promise.all([waitingForMe(me), listNotifications(me)]);
   return {
     waiting: waiting.map((w) => ({ ...w, sheet: sheetNumberLabel(w.sheetNumber), requestedAt: w.requestedAt.toISOString() })),
@@ -17,8 +17,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const me = await requireMember(request, "viewer");
+export async function action({ request, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "viewer");
   await markNotificationsRead(me);
   return { ok: true };
 }

@@ -1,6 +1,6 @@
 import type { EditorView } from "@codemirror/view";
 import { useMemo, useRef, useState } from "react";
-import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
+import { data, Link, redirect, useActionData, useLoaderData, useNavigation, type RouterContextProvider } from "react-router";
 import type { Route } from "./+types/documents.$number.edit";
 import { ReferenceList } from "~/components/citations";
 import type { CitationTarget } from "~/components/sheet-view";
@@ -14,16 +14,16 @@ import { citableSheets, discardDocumentDraft, getDocument, getDocumentDraft, get
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Editing ${data.document.label} · Sinewright` : "Document editor · Sinewright" }];
 
-async function loadDocument(request: Request, numberText: string) {
-  const me = await requireMember(request, "engineer");
+async function loadDocument(request: Request, context: Readonly<RouterContextProvider>, numberText: string) {
+  const me = await requireMember(request, context, "engineer");
   const number = parseDocumentNumber(numberText);
   const document = number ? await getDocument(me.team.teamId, number) : undefined;
   if (!document) throw new Response(null, { status: 404 });
   return { me, document };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { me, document } = await loadDocument(request, params.number);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { me, document } = await loadDocument(request, context, params.number);
   const [latest, draft, sheets] = await Promise.all([
     document.latestVersionId ? getVersion(document.id, { id: document.latestVersionId }) : undefined,
     getDocumentDraft(document.id, me.user.id),
@@ -41,8 +41,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const editorAction = sourceEditorForm("baseVersionId", "version");
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { me, document } = await loadDocument(request, params.number);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { me, document } = await loadDocument(request, context, params.number);
   const parsed = editorAction.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) {
     return data({ problems: [] as SourceProblem[], conflict: null as string | null, error: parsed.error.issues[0]?.message ?? "The form was incomplete.", savedAt: null as string | null }, { status: 400 });

@@ -13,10 +13,6 @@ import { parseDocumentNumber } from "~/lib/sheets/numbering";
 import { requireMember, type Member } from "~/.server/access";
 import { citationView, DocumentRuleError, getDocument, getVersion, listVersions, updateCitation, versionCitations } from "~/.server/documents";
 import { roleAtLeast } from "~/.server/roles";
-import { pageCache } from "~/.server/page-cache";
-
-/** Read far more often than written: the rendered page is kept until anything it shows changes. */
-export const middleware: Route.MiddlewareFunction[] = [pageCache];
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `${data.document.label} ${data.document.title} · Sinewright` : "Project document · Sinewright" }];
 
@@ -27,15 +23,14 @@ async function loadDocument(params: { number: string }, me: Member) {
   return document;
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const document = await loadDocument(params, me);
   const sequence = params.version === undefined ? undefined : Number(params.version);
   if (sequence !== undefined && !(Number.isInteger(sequence) && sequence > 0)) throw new Response(null, { status: 404 });
   const version = sequence !== undefined ? await getVersion(document.id, { sequence }) : document.latestVersionId ? await getVersion(document.id, { id: document.latestVersionId }) : undefined;
   if (sequence !== undefined && !version) throw new Response(null, { status: 404 });
-  const versions = await listVersions(document.id);
-  const citations = version ? (await versionCitations(me.team.teamId, version.id)).map(citationView) : [];
+  const [versions, citations] = await Promise.all([listVersions(document.id), version ? versionCitations(me.team.teamId, version.id) : []]);
   return {
     teamName: me.team.teamName,
     canWrite: roleAtLeast(me.team.role, "engineer"),
@@ -44,12 +39,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       ? { id: version.id, sequence: version.sequence, note: version.note, authorName: version.authorName, createdAt: version.createdAt.toISOString(), tree: version.renderTree, isLatest: version.id === document.latestVersionId }
       : null,
     versions: versions.map((v) => ({ sequence: v.sequence, note: v.note, authorName: v.authorName, createdAt: v.createdAt.toISOString() })),
-    citations,
+    citations: citations.map(citationView),
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const me = await requireMember(request, "engineer");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "engineer");
   const document = await loadDocument(params, me);
   const parsed = citationUpdateForm.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ ok: false, message: parsed.error.issues[0]?.message ?? "The form was incomplete." }, { status: 400 });

@@ -10,14 +10,14 @@ import { listProjects } from "~/.server/projects";
 
 export const meta: Route.MetaFunction = () => [{ title: "New project document · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "engineer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "engineer");
   const projects = await listProjects(me.team.teamId);
   return { projects: projects.map((p) => ({ value: p.id, code: p.code, label: `${p.code} — ${p.name}` })) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const me = await requireMember(request, "engineer");
+export async function action({ request, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "engineer");
   const parsed = documentDetailsForm.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors }, { status: 400 });
   try {

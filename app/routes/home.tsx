@@ -4,15 +4,15 @@ import { Wordmark } from "~/components/brand-mark";
 import { HardwareCaution } from "~/components/caution";
 import { VerificationStamp } from "~/components/verification-stamp";
 import { ENGINE_VERSION } from "~/lib/calc/version";
-import { getSignedIn } from "~/.server/access";
+import { identityOf } from "~/.server/access";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Sinewright — checked inverter design calculations for engineering teams" },
   { name: "description", content: "Calc sheets with live inverter calculators, second-engineer checking, and project documents that cite exact revisions." },
 ];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  return { signedIn: (await getSignedIn(request)) !== null };
+export async function loader({ request, context }: Route.LoaderArgs) {
+  return { signedIn: (await identityOf(context)) !== null };
 }
 
 const FEATURES = [

@@ -2,17 +2,17 @@ import { data, Form, Link, redirect, useActionData, useLoaderData, useLocation }
 import type { Route } from "./+types/invitation";
 import { AuthFrame } from "~/components/auth-frame";
 import { FormError, Notice } from "~/components/form-fields";
-import { getSignedIn } from "~/.server/access";
+import { identityOf } from "~/.server/access";
 import { auth } from "~/.server/auth";
 import { recordAudit } from "~/.server/audit";
 import { getInvitation, hasConfirmedEmail } from "~/.server/team";
 
 export const meta: Route.MetaFunction = () => [{ title: "Invitation · Sinewright" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
+export async function loader({ request, params, context }: Route.LoaderArgs) {
   const invitation = await getInvitation(params.invitationId);
   if (!invitation) throw new Response(null, { status: 404 });
-  const signedIn = await getSignedIn(request);
+  const signedIn = await identityOf(context);
   const usable = invitation.status === "pending" && invitation.expiresAt > new Date();
   return {
     invitation: { email: invitation.email, role: invitation.role, teamName: invitation.teamName, usable, status: invitation.status },
@@ -23,8 +23,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const UNCONFIRMED = "Confirm your e-mail address first: open the link in the message we sent you, then accept here.";
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const signedIn = await getSignedIn(request);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const signedIn = await identityOf(context);
   if (!signedIn) throw redirect(`/sign-in?next=/invitations/${params.invitationId}`);
   const intent = (await request.formData()).get("intent");
   if (intent === "send-confirmation") {

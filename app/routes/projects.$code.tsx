@@ -13,8 +13,8 @@ import { listSheets } from "~/.server/sheets";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `${data.project.code} ${data.project.name} · Sinewright` : "Project · Sinewright" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const project = await getProjectByCode(me.team.teamId, params.code);
   if (!project) throw new Response(null, { status: 404 });
   const [{ rows }, documents, stale] = await Promise.all([
@@ -31,8 +31,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const me = await requireMember(request, "engineer");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "engineer");
   const project = await getProjectByCode(me.team.teamId, params.code);
   if (!project) throw new Response(null, { status: 404 });
   const form = Object.fromEntries(await request.formData());

@@ -9,13 +9,13 @@ import { createProject, listProjects, ProjectRuleError } from "~/.server/project
 
 export const meta: Route.MetaFunction = () => [{ title: "Projects · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   return { teamName: me.team.teamName, canWrite: me.team.role !== "viewer", projects: await listProjects(me.team.teamId) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const me = await requireMember(request, "engineer");
+export async function action({ request, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "engineer");
   const form = Object.fromEntries(await request.formData());
   const parsed = projectForm.safeParse(form);
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors, values: form as Record<string, string> }, { status: 400 });

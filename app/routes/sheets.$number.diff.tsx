@@ -10,8 +10,8 @@ import { getRevision, getSheet, revisionBlocks } from "~/.server/sheets";
 
 export const meta: Route.MetaFunction = () => [{ title: "Compare revisions · Sinewright" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const number = parseSheetNumber(params.number);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
   if (!sheet) throw new Response(null, { status: 404 });

@@ -1,6 +1,6 @@
 import type { EditorView } from "@codemirror/view";
 import { useCallback, useRef, useState } from "react";
-import { data, Link, redirect, useActionData, useLoaderData, useNavigation } from "react-router";
+import { data, Link, redirect, useActionData, useLoaderData, useNavigation, type RouterContextProvider } from "react-router";
 import type { Route } from "./+types/sheets.$number.edit";
 import { AttachmentsPanel } from "~/components/attachments-panel";
 import { insertAtCursor, loadPreviewPipeline, PreviewPending, SourceEditorLayout, useAutosavedSource, usePreview } from "~/components/source-editor";
@@ -14,16 +14,16 @@ import { calculators } from "~/lib/calc/registry";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `Editing ${data.sheet.label} · Sinewright` : "Editor · Sinewright" }];
 
-async function loadSheet(request: Request, numberText: string) {
-  const me = await requireMember(request, "engineer");
+async function loadSheet(request: Request, context: Readonly<RouterContextProvider>, numberText: string) {
+  const me = await requireMember(request, context, "engineer");
   const number = parseSheetNumber(numberText);
   const sheet = number ? await getSheet(me.team.teamId, number) : undefined;
   if (!sheet) throw new Response(null, { status: 404 });
   return { me, sheet };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { me, sheet } = await loadSheet(request, params.number);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { me, sheet } = await loadSheet(request, context, params.number);
   const [latest, draft, attachments, captures] = await Promise.all([
     sheet.latestRevisionId ? getRevisionById(sheet.latestRevisionId) : undefined,
     getDraft(sheet.id, me.user.id),
@@ -47,8 +47,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const editorAction = sourceEditorForm("baseRevisionId", "revision");
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { me, sheet } = await loadSheet(request, params.number);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { me, sheet } = await loadSheet(request, context, params.number);
   const parsed = editorAction.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) {
     return data({ problems: [] as SourceProblem[], conflict: null as string | null, error: parsed.error.issues[0]?.message ?? "The form was incomplete.", savedAt: null as string | null }, { status: 400 });

@@ -24,11 +24,7 @@ import { citingDocuments } from "~/.server/documents";
 import { listProjects } from "~/.server/projects";
 import { getRevision, getRevisionById, getSheet, listRevisions, reuseRevision, revisionBlocks, sheetLineage, SheetRuleError } from "~/.server/sheets";
 import { sheetNumberLabel } from "~/lib/sheets/numbering";
-import { pageCache } from "~/.server/page-cache";
 import { describeAuditEvent } from "~/lib/audit/wording";
-
-/** Read far more often than written: the rendered page is kept until anything it shows changes. */
-export const middleware: Route.MiddlewareFunction[] = [pageCache];
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: data ? `${data.sheet.label} ${data.sheet.title} · Sinewright` : "Sheet · Sinewright" }];
 
@@ -58,23 +54,34 @@ function textOf(node: Element | Root): string {
   return node.children.map((child) => (child.type === "text" ? child.value : child.type === "element" ? textOf(child) : "")).join("");
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const { sheet, revision } = await loadRevision(request, params, me);
-  const revisions = await listRevisions(sheet.id);
-  const rows = revision ? await revisionBlocks([revision.id]) : [];
+  const canWrite = roleAtLeast(me.team.role, "engineer");
+  // Independent reads, in parallel.
+  const [revisions, rows, review, attachments, audit, lineage, citedIn, projects] = await Promise.all([
+    listRevisions(sheet.id),
+    revision ? revisionBlocks([revision.id]) : [],
+    revision ? revisionReview(revision.id) : null,
+    listAttachments(sheet.id),
+    sheetAudit(sheet.id, 40),
+    sheetLineage(sheet.id, sheet.derivedFromRevisionId),
+    citingDocuments(me.team.teamId, sheet.number),
+    canWrite ? listProjects(me.team.teamId) : [],
+  ]);
   const stored = revision ? storedEvaluation(revision.engineVersion, rows) : null;
-  const review = revision ? await revisionReview(revision.id) : null;
-  const integrity = revision ? await checkIntegrity(revision, rows, review?.stamp?.contentHash ?? null) : null;
   const isLatest = Boolean(revision && revision.id === sheet.latestRevisionId);
   const isAuthor = Boolean(revision && revision.authorId === me.user.id);
-  const canWrite = roleAtLeast(me.team.role, "engineer");
   const can = {
     submit: Boolean(revision && isLatest && canWrite && (revision.state === "draft" || revision.state === "returned")),
     comment: Boolean(revision && canWrite && revision.state !== "verified"),
     check: Boolean(revision && isLatest && revision.state === "submitted" && roleAtLeast(me.team.role, "checker") && !isAuthor),
     resolveAny: me.team.role === "admin",
   };
+  const [integrity, checkers] = await Promise.all([
+    revision ? checkIntegrity(revision, rows, review?.stamp?.contentHash ?? null) : null,
+    can.submit ? eligibleCheckers(me.team.teamId, revision?.authorId ?? null) : [],
+  ]);
   return {
     teamName: me.team.teamName,
     me: { name: me.user.name },
@@ -95,7 +102,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           isLatest,
         }
       : null,
-    attachments: (await listAttachments(sheet.id)).map((a) => ({ ...a, url: `/sheets/${sheet.label}/attachments/${a.id}` })),
+    attachments: attachments.map((a) => ({ ...a, url: `/sheets/${sheet.label}/attachments/${a.id}` })),
     attachmentLimit: attachmentLimitBytes(),
     stored,
     integrity,
@@ -108,14 +115,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         }
       : null,
     can,
-    checkers: can.submit ? (await eligibleCheckers(me.team.teamId, revision?.authorId ?? null)).map((c) => ({ id: c.id, name: c.name, role: c.role })) : [],
+    checkers: checkers.map((c) => ({ id: c.id, name: c.name, role: c.role })),
     anchors: revision ? commentAnchors(revision.renderTree as Root, rows.map((r) => r.blockId)) : [],
     blocks: rows.map((r) => ({ id: r.blockId, calculator: r.calculator, inputs: r.inputs as Record<string, string> })),
-    audit: (await sheetAudit(sheet.id, 40)).map((e) => ({ id: e.id, action: e.action, detail: e.detail as Record<string, unknown>, createdAt: e.createdAt.toISOString(), actorName: e.actorName })),
+    audit: audit.map((e) => ({ id: e.id, action: e.action, detail: e.detail as Record<string, unknown>, createdAt: e.createdAt.toISOString(), actorName: e.actorName })),
     revisions: revisions.map((r) => ({ label: r.label, state: r.state, note: r.note, authorName: r.authorName, createdAt: r.createdAt.toISOString(), contentHash: r.contentHash })),
-    lineage: await sheetLineage(sheet.id, sheet.derivedFromRevisionId),
-    citedIn: await citingDocuments(me.team.teamId, sheet.number),
-    projects: canWrite ? (await listProjects(me.team.teamId)).map((p) => ({ id: p.id, label: `${p.code} — ${p.name}` })) : [],
+    lineage,
+    citedIn,
+    projects: projects.map((p) => ({ id: p.id, label: `${p.code} — ${p.name}` })),
   };
 }
 
@@ -138,8 +145,8 @@ const reviewAction = z.discriminatedUnion("intent", [
   }),
 ]);
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const me = await requireMember(request, "engineer");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "engineer");
   const { revision } = await loadRevision(request, params, me);
   if (!revision) throw new Response("Save a revision before asking for a check.", { status: 400 });
   const form = await request.formData();

@@ -11,14 +11,14 @@ import { createSheet, SheetRuleError } from "~/.server/sheets";
 
 export const meta: Route.MetaFunction = () => [{ title: "New sheet · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "engineer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "engineer");
   const projects = await listProjects(me.team.teamId);
   return { projects: projects.map((p) => ({ id: p.id, code: p.code, label: `${p.code} — ${p.name}` })) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const me = await requireMember(request, "engineer");
+export async function action({ request, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "engineer");
   const parsed = sheetDetailsForm.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors }, { status: 400 });
   try {

@@ -22,8 +22,8 @@ const listQuery = z.object({
   page: z.coerce.number().int().min(1).catch(1),
 });
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const params = Object.fromEntries([...new URL(request.url).searchParams].filter(([, v]) => v !== ""));
   const query = listQuery.parse(params);
   const [{ rows, total }, projects, authors] = await Promise.all([

@@ -3,7 +3,7 @@ import type { Route } from "./+types/sign-in";
 import { AuthFrame } from "~/components/auth-frame";
 import { FormError, Notice, TextField } from "~/components/form-fields";
 import { fieldErrors, safeNext, signInForm, type FieldErrors } from "~/lib/forms/account";
-import { getSignedIn } from "~/.server/access";
+import { identityOf } from "~/.server/access";
 import { callAuthEndpoint } from "~/.server/auth";
 import { config } from "~/.server/config";
 import { actionRetryAfter, authErrorMessage, cookiesFrom, retryAfterHeaders } from "~/.server/auth-response";
@@ -11,8 +11,8 @@ import { actionRetryAfter, authErrorMessage, cookiesFrom, retryAfterHeaders } fr
 export const headers = actionRetryAfter;
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const signedIn = await getSignedIn(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const signedIn = await identityOf(context);
   if (signedIn) throw redirect(safeNext(new URL(request.url).searchParams.get("next"), config().APP_URL));
   return null;
 }

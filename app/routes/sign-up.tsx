@@ -3,7 +3,7 @@ import type { Route } from "./+types/sign-up";
 import { AuthFrame } from "~/components/auth-frame";
 import { FormError, TextField } from "~/components/form-fields";
 import { fieldErrors, safeNext, signUpForm, type FieldErrors } from "~/lib/forms/account";
-import { getSignedIn } from "~/.server/access";
+import { identityOf } from "~/.server/access";
 import { callAuthEndpoint } from "~/.server/auth";
 import { config } from "~/.server/config";
 import { actionRetryAfter, authErrorMessage, retryAfterHeaders } from "~/.server/auth-response";
@@ -11,8 +11,8 @@ import { actionRetryAfter, authErrorMessage, retryAfterHeaders } from "~/.server
 export const headers = actionRetryAfter;
 export const meta: Route.MetaFunction = () => [{ title: "Create an account · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  if (await getSignedIn(request)) throw redirect("/sheets");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  if (await identityOf(context)) throw redirect("/sheets");
   return null;
 }
 

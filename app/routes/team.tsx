@@ -10,8 +10,8 @@ import { describeAuditEvent } from "~/lib/audit/wording";
 
 export const meta: Route.MetaFunction = () => [{ title: "Team · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const me = await requireMember(request, "viewer");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const me = await requireMember(request, context, "viewer");
   const isAdmin = me.team.role === "admin";
   const [members, invitations, audit] = await Promise.all([
     listMembers(me.team.teamId),
@@ -29,8 +29,8 @@ const teamAction = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("cancel-invitation"), invitationId: z.string().min(1) }),
 ]);
 
-export async function action({ request }: Route.ActionArgs) {
-  const me = await requireMember(request, "admin");
+export async function action({ request, context }: Route.ActionArgs) {
+  const me = await requireMember(request, context, "admin");
   const parsed = teamAction.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ ok: false as const, errors: fieldErrors(parsed.error) as FieldErrors, done: "" }, { status: 400 });
   const input = parsed.data;

@@ -2,20 +2,20 @@ import { data, Form, redirect, useActionData, useLoaderData, useNavigation } fro
 import type { Route } from "./+types/teams.new";
 import { FormError, TextField } from "~/components/form-fields";
 import { fieldErrors, teamForm, type FieldErrors } from "~/lib/forms/account";
-import { membershipsOf, requireUser } from "~/.server/access";
+import { identityOf, requireUser } from "~/.server/access";
 import { auth } from "~/.server/auth";
 import { recordAudit } from "~/.server/audit";
 import { slugify } from "~/.server/team";
 
 export const meta: Route.MetaFunction = () => [{ title: "Start a team · Sinewright" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  return { hasTeam: (await membershipsOf(user.id)).length > 0 };
+export async function loader({ request, context }: Route.LoaderArgs) {
+  await requireUser(request, context);
+  return { hasTeam: Boolean((await identityOf(context))?.teams.length) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  const user = await requireUser(request, context);
   const parsed = teamForm.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) as FieldErrors }, { status: 400 });
   try {

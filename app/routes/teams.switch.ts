@@ -1,16 +1,16 @@
 import { redirect } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/teams.switch";
-import { membershipsOf, requireUser } from "~/.server/access";
+import { identityOf } from "~/.server/access";
 import { auth } from "~/.server/auth";
 
 const switchForm = z.object({ teamId: z.string().min(1) });
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  const identity = await identityOf(context);
+  if (!identity) throw redirect("/sign-in");
   const parsed = switchForm.safeParse(Object.fromEntries(await request.formData()));
-  const teams = await membershipsOf(user.id);
-  if (!parsed.success || !teams.some((t) => t.teamId === parsed.data.teamId)) {
+  if (!parsed.success || !identity.teams.some((t) => t.teamId === parsed.data.teamId)) {
     throw new Response("You are not a member of that team.", { status: 403 });
   }
   await auth().api.setActiveOrganization({ headers: request.headers, body: { organizationId: parsed.data.teamId } });

@@ -144,7 +144,7 @@ describe("project documents and their citations", () => {
     await checker.visitor.postForm(`/sheets/${sheet}`, { intent: "stamp" });
     expect((await author.postForm(`/documents/${document.label}`, { intent: "update-citation", documentId: document.id, sheet, rev: "A" })).status).toBe(200);
     expect(await reference()).toMatch(new RegExp(`${sheet} rev B[\\s\\S]*Verified`));
-    // Only the guard that keeps stamps permanent is lifted; the page-cache trigger still sees the change.
+    // Only the guard that keeps stamps permanent is lifted.
     await serverQuery(`alter table stamp disable trigger stamp_permanent`);
     try {
       await serverQuery(`update stamp set engine_version = '0.9.0' where revision_id = $1`, [b.id]);

@@ -58,7 +58,7 @@ export const ACCESS_MATRIX: Record<string, Entry> = {
   "routes/dev.mail": { url: "/dev/mail", get: anyone(404) },
   "routes/app-layout": { url: "/sheets", get: role("viewer", 200) },
   "routes/teams.new": { url: "/teams/new", get: signedIn(200), post: { rule: signedIn(400), body: form({ name: "" }) } },
-  "routes/teams.switch": { url: "/teams/switch", get: anyone(302), post: { rule: signedIn(403), body: form({ teamId: "not-a-team-of-yours" }) } },
+  "routes/teams.switch": { url: "/teams/switch", get: signedIn(302), post: { rule: signedIn(403), body: form({ teamId: "not-a-team-of-yours" }) } },
   "routes/sheets": { url: "/sheets", get: role("viewer", 200) },
   "routes/sheets.new": { url: "/sheets/new", get: role("engineer", 200), post: { rule: role("engineer", 302), body: form({ title: "Access matrix sheet by {actor}", projectId: "", tags: "" }) } },
   sheet: { url: "/sheets/CS-0008", get: teamRecord("viewer", 200), post: { rule: teamRecord("engineer", 200), body: comment } },

@@ -480,16 +480,3 @@ export const apiRateLimit = pgTable(
   },
   (t) => [index("api_rate_limit_window_idx").on(t.windowStart)],
 );
-
-/**
- * A counter per team that moves whenever anything a page of that team shows changes:
- * triggers on every content table bump it (once per transaction), so a rendered page
- * cached under a team's version is never served after a change, on any app server.
- * Tables the triggers leave out are listed, with why, in `app/.server/page-cache.ts`.
- */
-export const teamContentVersion = pgTable("team_content_version", {
-  teamId: text("team_id").primaryKey(),
-  version: bigint("version", { mode: "number" }).notNull().default(1),
-  /** The transaction that last moved it (pg_current_xact_id), so a transaction writing many rows moves it once. */
-  changedIn: bigint("changed_in", { mode: "number" }).notNull(),
-});

@@ -1,0 +1,1 @@
+DROP TABLE "team_content_version" CASCADE;
