@@ -57,8 +57,6 @@ import {
 import { formatQuantity, SI_UNIT } from "./format";
 import type { Dimension } from "./types";
 
-export { SI_UNIT };
-
 const instance = create(
   {
     unitDependencies,
@@ -312,18 +310,8 @@ export function bareNumberMessage(number: number, spec: QuantitySpec): string {
   return `${spec.key}: ${formatQuantity(number, "", { digits: 15, trimZeros: true })} has no unit: did you mean ${offered.join(" or ")}? Write the unit (only pure numbers such as ma or pf are typed bare)`;
 }
 
-/** The SI unit each dimension's variants are matched against, as mathjs spells it. */
-const VARIANT_BASES: Partial<Record<Dimension, string>> = {
-  voltage: "V",
-  current: "A",
-  frequency: "Hz",
-  capacitance: "F",
-  inductance: "H",
-  resistance: "ohm",
-  power: "W",
-  energy: "J",
-  time: "s",
-};
+/** Dimensions whose SI unit takes metric prefixes, so a case variant of it ("KHz", "uf") can be read. */
+const PREFIXED_DIMENSIONS = new Set<Dimension>(["voltage", "current", "frequency", "capacitance", "inductance", "resistance", "power", "energy", "time"]);
 const VARIANT_PREFIXES = ["p", "n", "u", "m", "", "k", "M", "G"];
 
 /**
@@ -341,8 +329,8 @@ function readUnitVariant(cleaned: string, spec: QuantitySpec): QuantityParse | u
   let candidates: string[];
   if (spec.dimension === "angle") candidates = /^deg$/i.test(unitText) ? ["deg"] : [];
   else {
-    const base = VARIANT_BASES[spec.dimension];
-    if (!base) return undefined;
+    if (!PREFIXED_DIMENSIONS.has(spec.dimension)) return undefined;
+    const base = SI_UNIT[spec.dimension];
     candidates = VARIANT_PREFIXES.map((p) => p + base).filter((c) => c.toLowerCase() === unitText.toLowerCase());
   }
   if (candidates.length === 0) return undefined;

@@ -10,7 +10,7 @@
  */
 import type { Root as HastRoot, RootContent } from "hast";
 import { formatQuantity } from "../calc/format";
-import { SI_UNIT } from "../calc/units";
+import { SI_UNIT } from "../calc/format";
 import type { Calculator } from "../calc/types";
 
 /**

@@ -8,7 +8,8 @@ import * as full from "mathjs";
 import { describe, expect, it } from "vitest";
 import { evaluateSheet } from "~/lib/calc/evaluate-sheet";
 import type { Dimension, ScalarResult } from "~/lib/calc/types";
-import { parseQuantity, SI_UNIT } from "~/lib/calc/units";
+import { SI_UNIT } from "~/lib/calc/format";
+import { parseQuantity } from "~/lib/calc/units";
 import { expectClose } from "../../support/tolerance";
 
 

@@ -8,7 +8,7 @@ import { evaluateCalculator, evaluateSheet } from "~/lib/calc/evaluate-sheet";
 import { parseInputs } from "~/lib/calc/inputs";
 import { calculators } from "~/lib/calc/registry";
 import type { InputSpec } from "~/lib/calc/types";
-import { SI_UNIT } from "~/lib/calc/units";
+import { SI_UNIT } from "~/lib/calc/format";
 
 /** Every number anywhere in a value, to check they are all finite. */
 function numbersIn(value: unknown, found: number[] = []): number[] {

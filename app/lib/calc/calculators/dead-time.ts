@@ -26,21 +26,20 @@
  * checked in the tests against the synthesized switched leg and an FFT.
  */
 import { scalar } from "../format";
-import { harmonicTable, type OrderPeak } from "../spectrum";
+import { harmonicTable, thdUpTo, type OrderPeak } from "../spectrum";
 import type { Calculator, QuantityInputSpec, Results } from "../types";
-import { LETHAL_VOLTAGE_CAUTION, dcLinkVoltageInput, fundamentalFrequencyInput, readQuantity } from "./shared-inputs";
+import { LETHAL_VOLTAGE_CAUTION, dcLinkVoltageInput, fundamentalFrequencyInput, readQuantity, quantityInput } from "./shared-inputs";
 
-const quantity = (spec: Omit<QuantityInputSpec, "kind">): QuantityInputSpec => ({ kind: "quantity", ...spec });
 
 const vdcInput = dcLinkVoltageInput("600 V", "DC-link voltage; the leg's pole swings ±Vdc/2 about the midpoint.");
-const maInput = quantity({ key: "ma", label: "Modulation index ma", description: "Peak of the sine reference over the carrier peak (linear range).", dimension: "dimensionless", displayUnit: "", min: 0, minExclusive: true, max: 1, default: "0.9" });
-const fswInput = quantity({ key: "fsw", label: "Switching frequency", description: "PWM carrier frequency.", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e7, default: "10 kHz" });
-const tdInput = quantity({ key: "td", label: "Dead time td", description: "Delay added to every turn-on so the two switches never conduct together.", dimension: "time", displayUnit: "us", min: 0, max: 1e-3, default: "1.5 us" });
-const phiInput = quantity({ key: "phi", label: "Current lag φ", description: "Angle by which the output current lags the reference (0° resistive, 90° inductive).", dimension: "angle", displayUnit: "deg", min: -180, max: 180, default: "30 deg" });
-const vTInput = quantity({ key: "vT", label: "Transistor drop V_T", description: "On-state drop of a conducting transistor, taken as constant.", dimension: "voltage", displayUnit: "V", min: 0, max: 50, default: "1.5 V" });
-const vDInput = quantity({ key: "vD", label: "Diode drop V_D", description: "Forward drop of a conducting diode, taken as constant.", dimension: "voltage", displayUnit: "V", min: 0, max: 50, default: "1.2 V" });
-const tMinInput = quantity({ key: "tMinOn", label: "Minimum on-time", description: "Optional: shortest pulse the switches and drivers can make, beside the dead time.", dimension: "time", displayUnit: "us", min: 0, max: 1e-3, optional: true });
-const hmaxInput = quantity({ key: "hmax", label: "Highest harmonic order listed", description: "The harmonics table stops at this order.", dimension: "dimensionless", displayUnit: "", min: 3, max: 199, integer: true, default: "25" });
+const maInput = quantityInput({ key: "ma", label: "Modulation index ma", description: "Peak of the sine reference over the carrier peak (linear range).", dimension: "dimensionless", displayUnit: "", min: 0, minExclusive: true, max: 1, default: "0.9" });
+const fswInput = quantityInput({ key: "fsw", label: "Switching frequency", description: "PWM carrier frequency.", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e7, default: "10 kHz" });
+const tdInput = quantityInput({ key: "td", label: "Dead time td", description: "Delay added to every turn-on so the two switches never conduct together.", dimension: "time", displayUnit: "us", min: 0, max: 1e-3, default: "1.5 us" });
+const phiInput = quantityInput({ key: "phi", label: "Current lag φ", description: "Angle by which the output current lags the reference (0° resistive, 90° inductive).", dimension: "angle", displayUnit: "deg", min: -180, max: 180, default: "30 deg" });
+const vTInput = quantityInput({ key: "vT", label: "Transistor drop V_T", description: "On-state drop of a conducting transistor, taken as constant.", dimension: "voltage", displayUnit: "V", min: 0, max: 50, default: "1.5 V" });
+const vDInput = quantityInput({ key: "vD", label: "Diode drop V_D", description: "Forward drop of a conducting diode, taken as constant.", dimension: "voltage", displayUnit: "V", min: 0, max: 50, default: "1.2 V" });
+const tMinInput = quantityInput({ key: "tMinOn", label: "Minimum on-time", description: "Optional: shortest pulse the switches and drivers can make, beside the dead time.", dimension: "time", displayUnit: "us", min: 0, max: 1e-3, optional: true });
+const hmaxInput = quantityInput({ key: "hmax", label: "Highest harmonic order listed", description: "The harmonics table stops at this order.", dimension: "dimensionless", displayUnit: "", min: 3, max: 199, integer: true, default: "25" });
 
 export const calculator: Calculator = {
   id: "dead-time",
@@ -103,14 +102,7 @@ export const calculator: Calculator = {
     const quadrature = ((4 * amplitude) / Math.PI) * Math.sin(phi);
     const v1 = Math.hypot(inPhase, quadrature);
     const lines: OrderPeak[] = [];
-    let poleSquares = 0;
-    let lineSquares = 0;
-    for (let n = 3; n <= Math.max(hmax, 3); n += 2) {
-      const peak = (4 * amplitude) / (n * Math.PI);
-      lines.push({ n, peak });
-      poleSquares += peak * peak;
-      if (n % 3 !== 0) lineSquares += peak * peak;
-    }
+    for (let n = 3; n <= hmax; n += 2) lines.push({ n, peak: (4 * amplitude) / (n * Math.PI) });
     const minPulse = (1 - ma) / (2 * fsw);
     const margin = minPulse - td - tMinOn;
     if (margin < 0) {
@@ -127,8 +119,9 @@ export const calculator: Calculator = {
       v1Peak: scalar(v1, "V"),
       v1Loss: scalar((100 * (ideal - v1)) / ideal, "%"),
       v1Shift: scalar((Math.atan2(quadrature, inPhase) * 180) / Math.PI, "deg"),
-      thdLowOrder: scalar((100 * Math.sqrt(poleSquares)) / v1, "%"),
-      thdLowOrderLine: scalar((100 * Math.sqrt(lineSquares)) / v1, "%"),
+      thdLowOrder: scalar(thdUpTo(v1, lines, hmax), "%"),
+      // Triplen orders cancel between the legs' line-to-line voltages.
+      thdLowOrderLine: scalar(thdUpTo(v1, lines.filter((line) => line.n % 3 !== 0), hmax), "%"),
       minPulse: scalar(minPulse, "s"),
       pulseMargin: scalar(margin, "s"),
       harmonics: harmonicTable(v1, lines, hmax, f),

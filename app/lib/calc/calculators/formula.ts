@@ -13,7 +13,8 @@
 import { fieldError } from "../errors";
 import { formatQuantity, scalar } from "../format";
 import { evaluateExpression } from "../safe-expression";
-import { dimensionOf, SI_UNIT } from "../units";
+import { SI_UNIT } from "../format";
+import { dimensionOf } from "../units";
 import type { Calculator, ExpressionInputSpec, ScalarResult } from "../types";
 
 const exprInput: ExpressionInputSpec = {

@@ -173,16 +173,6 @@ export interface EliminationProblem {
   eliminate: number[];
 }
 
-/** Residuals F_0 (fundamental) and F_j (each removed order), per unit of 4Vdc/π, into `out`. */
-export function residuals(problem: EliminationProblem, angles: ArrayLike<number>, out = new Float64Array(angles.length)): Float64Array {
-  const wave = waveOf(problem.wave, angles.length);
-  out[0] = weightedHarmonic(wave, angles, 1) - problem.m * wave.fullScale;
-  problem.eliminate.forEach((n, j) => {
-    out[j + 1] = weightedHarmonic(wave, angles, n);
-  });
-  return out;
-}
-
 const norm = (values: ArrayLike<number>) => {
   let sum = 0;
   for (let i = 0; i < values.length; i++) sum += values[i]! * values[i]!;

@@ -48,8 +48,6 @@ import type { Calculator, ChoiceInputSpec, LimitRow, QuantityInputSpec, Results,
 import { readChoice, readQuantity } from "./shared-inputs";
 import { VERDICT_NOTE } from "../verdict-note";
 
-export { VERDICT_NOTE };
-
 const standardInput: ChoiceInputSpec = {
   key: "standard",
   label: "Limit table",

@@ -25,20 +25,19 @@
  */
 import { scalar } from "../format";
 import type { BodePoint, Calculator, ChoiceInputSpec, QuantityInputSpec, Results } from "../types";
-import { LETHAL_VOLTAGE_CAUTION, outputFrequencyInput, readChoice, readQuantity } from "./shared-inputs";
+import { LETHAL_VOLTAGE_CAUTION, outputFrequencyInput, readChoice, readQuantity, quantityInput } from "./shared-inputs";
 
-const quantity = (spec: Omit<QuantityInputSpec, "kind">): QuantityInputSpec => ({ kind: "quantity", ...spec });
 
-const l1Input = quantity({ key: "l1", label: "Inverter-side inductance L1", description: "Per phase, between the bridge and the capacitor node.", dimension: "inductance", displayUnit: "mH", min: 0, minExclusive: true, max: 10, default: "1.8 mH" });
-const l2Input = quantity({ key: "l2", label: "Grid-side inductance L2", description: "Per phase, between the capacitor node and the grid (include the grid's own inductance if known).", dimension: "inductance", displayUnit: "mH", min: 0, minExclusive: true, max: 10, default: "0.6 mH" });
-const cInput = quantity({ key: "c", label: "Filter capacitance C", description: "Per phase, star-connected (convert a delta bank: C_star = 3·C_delta).", dimension: "capacitance", displayUnit: "uF", min: 0, minExclusive: true, max: 1, default: "10 uF" });
-const rdInput = quantity({ key: "rd", label: "Damping resistor R_d", description: "In series with each capacitor; 0 for an undamped filter.", dimension: "resistance", displayUnit: "ohm", min: 0, max: 1e4, default: "2 ohm" });
-const fswInput = quantity({ key: "fsw", label: "Switching frequency", description: "The carrier frequency: the first ripple group sits there (or at twice it for unipolar PWM).", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e7, default: "10 kHz" });
+const l1Input = quantityInput({ key: "l1", label: "Inverter-side inductance L1", description: "Per phase, between the bridge and the capacitor node.", dimension: "inductance", displayUnit: "mH", min: 0, minExclusive: true, max: 10, default: "1.8 mH" });
+const l2Input = quantityInput({ key: "l2", label: "Grid-side inductance L2", description: "Per phase, between the capacitor node and the grid (include the grid's own inductance if known).", dimension: "inductance", displayUnit: "mH", min: 0, minExclusive: true, max: 10, default: "0.6 mH" });
+const cInput = quantityInput({ key: "c", label: "Filter capacitance C", description: "Per phase, star-connected (convert a delta bank: C_star = 3·C_delta).", dimension: "capacitance", displayUnit: "uF", min: 0, minExclusive: true, max: 1, default: "10 uF" });
+const rdInput = quantityInput({ key: "rd", label: "Damping resistor R_d", description: "In series with each capacitor; 0 for an undamped filter.", dimension: "resistance", displayUnit: "ohm", min: 0, max: 1e4, default: "2 ohm" });
+const fswInput = quantityInput({ key: "fsw", label: "Switching frequency", description: "The carrier frequency: the first ripple group sits there (or at twice it for unipolar PWM).", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e7, default: "10 kHz" });
 const fInput = outputFrequencyInput("Grid frequency", "Fundamental frequency of the grid.");
-const vInput = quantity({ key: "vGrid", label: "Grid voltage per phase", description: "RMS voltage across each capacitor (line to neutral).", dimension: "voltage", displayUnit: "V", min: 0, max: 1e6, default: "230 V" });
-const pRatedInput = quantity({ key: "pRated", label: "Rated power", description: "Optional: the converter's rating, to give the capacitor's reactive power as a share of it.", dimension: "power", displayUnit: "kW", min: 0, minExclusive: true, max: 1e9, optional: true });
-const iRippleInput = quantity({ key: "iRipple", label: "Inverter-side ripple at fsw (RMS)", description: "Optional: RMS of the switching-frequency ripple in L1, for the damping loss (e.g. from the inductor-ripple calculator).", dimension: "current", displayUnit: "A", min: 0, max: 1e5, optional: true });
-const fControlInput = quantity({ key: "fControl", label: "Control sampling frequency", description: "Optional: the current controller's sampling frequency, to flag a resonance near its critical frequency f_s/6.", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e7, optional: true });
+const vInput = quantityInput({ key: "vGrid", label: "Grid voltage per phase", description: "RMS voltage across each capacitor (line to neutral).", dimension: "voltage", displayUnit: "V", min: 0, max: 1e6, default: "230 V" });
+const pRatedInput = quantityInput({ key: "pRated", label: "Rated power", description: "Optional: the converter's rating, to give the capacitor's reactive power as a share of it.", dimension: "power", displayUnit: "kW", min: 0, minExclusive: true, max: 1e9, optional: true });
+const iRippleInput = quantityInput({ key: "iRipple", label: "Inverter-side ripple at fsw (RMS)", description: "Optional: RMS of the switching-frequency ripple in L1, for the damping loss (e.g. from the inductor-ripple calculator).", dimension: "current", displayUnit: "A", min: 0, max: 1e5, optional: true });
+const fControlInput = quantityInput({ key: "fControl", label: "Control sampling frequency", description: "Optional: the current controller's sampling frequency, to flag a resonance near its critical frequency f_s/6.", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e7, optional: true });
 const phasesInput: ChoiceInputSpec = {
   key: "phases",
   label: "Phases",

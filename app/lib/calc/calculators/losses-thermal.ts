@@ -32,9 +32,9 @@
  */
 import { scalar } from "../format";
 import type { Calculator, ChoiceInputSpec, QuantityInputSpec, Results } from "../types";
-import { LETHAL_VOLTAGE_CAUTION, dcLinkVoltageInput, readChoice, readQuantity } from "./shared-inputs";
+import { LETHAL_VOLTAGE_CAUTION, dcLinkVoltageInput, readChoice, readQuantity, quantityInput } from "./shared-inputs";
+import { conductionLoss, SWITCH_COUNT } from "./switch-stress";
 
-const quantity = (spec: Omit<QuantityInputSpec, "kind">): QuantityInputSpec => ({ kind: "quantity", ...spec });
 
 const topologyInput: ChoiceInputSpec = {
   key: "topology",
@@ -62,35 +62,29 @@ const deviceInput: ChoiceInputSpec = {
 };
 
 const vdcInput = dcLinkVoltageInput("600 V", "DC-link voltage; each device blocks it and switching energies scale with it.");
-const iPeakInput = quantity({ key: "iPeak", label: "Output current peak Î", description: "Peak of the sinusoidal output (phase) current.", dimension: "current", displayUnit: "A", min: 0, minExclusive: true, max: 1e5, default: "70 A" });
-const maInput = quantity({ key: "ma", label: "Modulation index ma", description: "Peak of the leg's sine reference over the carrier peak (linear range).", dimension: "dimensionless", displayUnit: "", min: 0, max: 1.155, default: "0.9" });
-const pfInput = quantity({ key: "pf", label: "Displacement power factor cos φ", description: "Cosine of the angle by which the current lags the voltage; negative when power flows back into the link.", dimension: "dimensionless", displayUnit: "", min: -1, max: 1, default: "0.85" });
-const fswInput = quantity({ key: "fsw", label: "Switching frequency", description: "PWM carrier frequency.", dimension: "frequency", displayUnit: "kHz", min: 0, max: 1e7, default: "8 kHz" });
-const vce0Input = quantity({ key: "vce0", label: "IGBT threshold V_CE0", description: "Intercept of the datasheet's on-state line at the temperature of interest (IGBT only).", dimension: "voltage", displayUnit: "V", min: 0, max: 10, default: "0.9 V" });
-const rceInput = quantity({ key: "rce", label: "IGBT slope resistance r_CE", description: "Slope of the on-state line (IGBT only).", dimension: "resistance", displayUnit: "mohm", min: 0, max: 10, default: "9 mohm" });
-const rdsOnInput = quantity({ key: "rdsOn", label: "R_DS(on) at 25 °C", description: "MOSFET on-resistance at 25 °C junction (MOSFET only).", dimension: "resistance", displayUnit: "mohm", min: 0, minExclusive: true, max: 10, default: "20 mohm" });
-const rdsOnHotInput = quantity({ key: "rdsOnHot", label: "R_DS(on) hot", description: "MOSFET on-resistance at the hot datasheet temperature (MOSFET only).", dimension: "resistance", displayUnit: "mohm", min: 0, minExclusive: true, max: 10, default: "32 mohm" });
-const tHotInput = quantity({ key: "tHot", label: "Hot datasheet temperature", description: "Junction temperature of the hot R_DS(on) value.", dimension: "temperature", displayUnit: "degC", min: 26, max: 400, default: "150 degC" });
-const eonInput = quantity({ key: "eon", label: "Turn-on energy E_on", description: "Datasheet turn-on energy at the test voltage and current.", dimension: "energy", displayUnit: "mJ", min: 0, max: 10, default: "6 mJ" });
-const eoffInput = quantity({ key: "eoff", label: "Turn-off energy E_off", description: "Datasheet turn-off energy at the test voltage and current.", dimension: "energy", displayUnit: "mJ", min: 0, max: 10, default: "5 mJ" });
-const errInput = quantity({ key: "err", label: "Diode recovery energy E_rr", description: "Datasheet reverse-recovery energy at the test voltage and current.", dimension: "energy", displayUnit: "mJ", min: 0, max: 10, default: "3 mJ" });
-const eTestVInput = quantity({ key: "eTestV", label: "Energy test voltage", description: "DC voltage at which the datasheet energies are given.", dimension: "voltage", displayUnit: "V", min: 0, minExclusive: true, max: 1e5, default: "600 V" });
-const eTestIInput = quantity({ key: "eTestI", label: "Energy test current", description: "Current at which the datasheet energies are given.", dimension: "current", displayUnit: "A", min: 0, minExclusive: true, max: 1e5, default: "100 A" });
-const vf0Input = quantity({ key: "vf0", label: "Diode threshold V_F0", description: "Intercept of the diode's forward line.", dimension: "voltage", displayUnit: "V", min: 0, max: 10, default: "1 V" });
-const rfInput = quantity({ key: "rf", label: "Diode slope resistance r_F", description: "Slope of the diode's forward line.", dimension: "resistance", displayUnit: "mohm", min: 0, max: 10, default: "6 mohm" });
-const rthJcInput = quantity({ key: "rthJc", label: "R_th junction–case, transistor", description: "Per transistor.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 100, default: "0.25 K/W" });
-const rthJcDiodeInput = quantity({ key: "rthJcDiode", label: "R_th junction–case, diode", description: "Per diode.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 100, default: "0.45 K/W" });
-const rthCsInput = quantity({ key: "rthCs", label: "R_th case–heatsink", description: "Per switch position (transistor and diode together), including the interface material.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 100, default: "0.05 K/W" });
-const rthSaInput = quantity({ key: "rthSa", label: "R_th heatsink–ambient", description: "Of the one heatsink carrying every switch position.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 100, default: "0.08 K/W" });
-const taInput = quantity({ key: "ta", label: "Ambient temperature", description: "Air at the heatsink inlet.", dimension: "temperature", displayUnit: "degC", min: -60, max: 200, default: "40 degC" });
-const tjMaxInput = quantity({ key: "tjMax", label: "Maximum junction temperature", description: "Datasheet T_j(max) (or the design limit below it).", dimension: "temperature", displayUnit: "degC", min: 0, max: 400, default: "150 degC" });
+const iPeakInput = quantityInput({ key: "iPeak", label: "Output current peak Î", description: "Peak of the sinusoidal output (phase) current.", dimension: "current", displayUnit: "A", min: 0, minExclusive: true, max: 1e5, default: "70 A" });
+const maInput = quantityInput({ key: "ma", label: "Modulation index ma", description: "Peak of the leg's sine reference over the carrier peak (linear range).", dimension: "dimensionless", displayUnit: "", min: 0, max: 1.155, default: "0.9" });
+const pfInput = quantityInput({ key: "pf", label: "Displacement power factor cos φ", description: "Cosine of the angle by which the current lags the voltage; negative when power flows back into the link.", dimension: "dimensionless", displayUnit: "", min: -1, max: 1, default: "0.85" });
+const fswInput = quantityInput({ key: "fsw", label: "Switching frequency", description: "PWM carrier frequency.", dimension: "frequency", displayUnit: "kHz", min: 0, max: 1e7, default: "8 kHz" });
+const vce0Input = quantityInput({ key: "vce0", label: "IGBT threshold V_CE0", description: "Intercept of the datasheet's on-state line at the temperature of interest (IGBT only).", dimension: "voltage", displayUnit: "V", min: 0, max: 10, default: "0.9 V" });
+const rceInput = quantityInput({ key: "rce", label: "IGBT slope resistance r_CE", description: "Slope of the on-state line (IGBT only).", dimension: "resistance", displayUnit: "mohm", min: 0, max: 10, default: "9 mohm" });
+const rdsOnInput = quantityInput({ key: "rdsOn", label: "R_DS(on) at 25 °C", description: "MOSFET on-resistance at 25 °C junction (MOSFET only).", dimension: "resistance", displayUnit: "mohm", min: 0, minExclusive: true, max: 10, default: "20 mohm" });
+const rdsOnHotInput = quantityInput({ key: "rdsOnHot", label: "R_DS(on) hot", description: "MOSFET on-resistance at the hot datasheet temperature (MOSFET only).", dimension: "resistance", displayUnit: "mohm", min: 0, minExclusive: true, max: 10, default: "32 mohm" });
+const tHotInput = quantityInput({ key: "tHot", label: "Hot datasheet temperature", description: "Junction temperature of the hot R_DS(on) value.", dimension: "temperature", displayUnit: "degC", min: 26, max: 400, default: "150 degC" });
+const eonInput = quantityInput({ key: "eon", label: "Turn-on energy E_on", description: "Datasheet turn-on energy at the test voltage and current.", dimension: "energy", displayUnit: "mJ", min: 0, max: 10, default: "6 mJ" });
+const eoffInput = quantityInput({ key: "eoff", label: "Turn-off energy E_off", description: "Datasheet turn-off energy at the test voltage and current.", dimension: "energy", displayUnit: "mJ", min: 0, max: 10, default: "5 mJ" });
+const errInput = quantityInput({ key: "err", label: "Diode recovery energy E_rr", description: "Datasheet reverse-recovery energy at the test voltage and current.", dimension: "energy", displayUnit: "mJ", min: 0, max: 10, default: "3 mJ" });
+const eTestVInput = quantityInput({ key: "eTestV", label: "Energy test voltage", description: "DC voltage at which the datasheet energies are given.", dimension: "voltage", displayUnit: "V", min: 0, minExclusive: true, max: 1e5, default: "600 V" });
+const eTestIInput = quantityInput({ key: "eTestI", label: "Energy test current", description: "Current at which the datasheet energies are given.", dimension: "current", displayUnit: "A", min: 0, minExclusive: true, max: 1e5, default: "100 A" });
+const vf0Input = quantityInput({ key: "vf0", label: "Diode threshold V_F0", description: "Intercept of the diode's forward line.", dimension: "voltage", displayUnit: "V", min: 0, max: 10, default: "1 V" });
+const rfInput = quantityInput({ key: "rf", label: "Diode slope resistance r_F", description: "Slope of the diode's forward line.", dimension: "resistance", displayUnit: "mohm", min: 0, max: 10, default: "6 mohm" });
+const rthJcInput = quantityInput({ key: "rthJc", label: "R_th junction–case, transistor", description: "Per transistor.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 100, default: "0.25 K/W" });
+const rthJcDiodeInput = quantityInput({ key: "rthJcDiode", label: "R_th junction–case, diode", description: "Per diode.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 100, default: "0.45 K/W" });
+const rthCsInput = quantityInput({ key: "rthCs", label: "R_th case–heatsink", description: "Per switch position (transistor and diode together), including the interface material.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 100, default: "0.05 K/W" });
+const rthSaInput = quantityInput({ key: "rthSa", label: "R_th heatsink–ambient", description: "Of the one heatsink carrying every switch position.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 100, default: "0.08 K/W" });
+const taInput = quantityInput({ key: "ta", label: "Ambient temperature", description: "Air at the heatsink inlet.", dimension: "temperature", displayUnit: "degC", min: -60, max: 200, default: "40 degC" });
+const tjMaxInput = quantityInput({ key: "tjMax", label: "Maximum junction temperature", description: "Datasheet T_j(max) (or the design limit below it).", dimension: "temperature", displayUnit: "degC", min: 0, max: 400, default: "150 degC" });
 
-const POSITIONS: Record<string, number> = { "half-bridge": 2, "full-bridge": 4, "three-phase": 6 };
-
-/** Average conduction loss of a device carrying V0 + r·i for the duty weighting sign σ (+1 transistor, −1 diode). */
-export function conductionLoss(v0: number, r: number, iPeak: number, ma: number, pf: number, sigma: 1 | -1): number {
-  return v0 * iPeak * (1 / (2 * Math.PI) + (sigma * ma * pf) / 8) + r * iPeak * iPeak * (1 / 8 + (sigma * ma * pf) / (3 * Math.PI));
-}
 
 /** An iterate above this has left every physical range: the iteration is running away. */
 const RUNAWAY_ABOVE = 1e6;
@@ -155,7 +149,7 @@ export const calculator: Calculator = {
     const [eon, eoff, err, eTestV, eTestI] = [eonInput, eoffInput, errInput, eTestVInput, eTestIInput].map(read) as [number, number, number, number, number];
     const [vf0, rf, rthJc, rthJcDiode, rthCs, rthSa, ta, tjMax] = [vf0Input, rfInput, rthJcInput, rthJcDiodeInput, rthCsInput, rthSaInput, taInput, tjMaxInput].map(read) as
       [number, number, number, number, number, number, number, number];
-    const positions = POSITIONS[topology]!;
+    const positions = SWITCH_COUNT[topology]!;
     const warnings: string[] = [];
 
     // Conduction loss of the transistor as a function of its junction temperature.

@@ -10,6 +10,9 @@
 import { fieldError } from "../errors";
 import type { ChoiceInputSpec, ParsedInputs, QuantityInputSpec, QuantityListInputSpec } from "../types";
 
+/** A quantity input written as one line: the spec without its `kind`. */
+export const quantityInput = (spec: Omit<QuantityInputSpec, "kind">): QuantityInputSpec => ({ kind: "quantity", ...spec });
+
 /** The DC-link voltage input `vdc` every inverter calculator takes; without a default text the engineer must type it. */
 export const dcLinkVoltageInput = (defaultText: string | undefined, description: string): QuantityInputSpec => ({
   key: "vdc",

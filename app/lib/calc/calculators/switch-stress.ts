@@ -42,9 +42,8 @@
 import { CalculationError } from "../errors";
 import { scalar } from "../format";
 import type { Calculator, ChoiceInputSpec, FieldError, QuantityInputSpec, Results } from "../types";
-import { dcLinkVoltageInput, LETHAL_VOLTAGE_CAUTION, readChoice, readQuantity } from "./shared-inputs";
+import { dcLinkVoltageInput, LETHAL_VOLTAGE_CAUTION, readChoice, readQuantity, quantityInput } from "./shared-inputs";
 
-const quantity = (spec: Omit<QuantityInputSpec, "kind">): QuantityInputSpec => ({ kind: "quantity", ...spec });
 
 const topologyInput: ChoiceInputSpec = {
   key: "topology",
@@ -72,9 +71,9 @@ const deviceInput: ChoiceInputSpec = {
 };
 
 const vdcInput = dcLinkVoltageInput(undefined, "DC-link voltage across each leg.");
-const pInput = quantity({ key: "p", label: "Output power", description: "Total real output power of the inverter.", dimension: "power", displayUnit: "W", min: 0, minExclusive: true, max: 1e9 });
-const pfInput = quantity({ key: "pf", label: "Power factor", description: "Load displacement power factor, 0 to 1.", dimension: "dimensionless", displayUnit: "", min: 0, minExclusive: true, max: 1, default: "1" });
-const voutInput = quantity({
+const pInput = quantityInput({ key: "p", label: "Output power", description: "Total real output power of the inverter.", dimension: "power", displayUnit: "W", min: 0, minExclusive: true, max: 1e9 });
+const pfInput = quantityInput({ key: "pf", label: "Power factor", description: "Load displacement power factor, 0 to 1.", dimension: "dimensionless", displayUnit: "", min: 0, minExclusive: true, max: 1, default: "1" });
+const voutInput = quantityInput({
   key: "vout",
   label: "Output voltage (RMS)",
   description: "Fundamental RMS output voltage: load voltage for single-phase, line to line for three-phase. Absent: the largest linear-SPWM output (ma = 1).",
@@ -85,27 +84,37 @@ const voutInput = quantity({
   max: 1e6,
   optional: true,
 });
-const fswInput = quantity({ key: "fsw", label: "Switching frequency", description: "PWM carrier frequency.", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e8 });
-const rdsOnInput = quantity({ key: "rdsOn", label: "R_DS(on)", description: "MOSFET on-resistance at the expected junction temperature.", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
-const vceSatInput = quantity({ key: "vceSat", label: "V_CE0 (IGBT threshold)", description: "IGBT on-state threshold voltage V_CE0 of the linear model V_CE = V_CE0 + r_CE·i, at the expected junction temperature. With no rCe, give V_CE(sat) here: a constant drop.", dimension: "voltage", displayUnit: "V", min: 0, max: 100, optional: true });
-const rCeInput = quantity({ key: "rCe", label: "r_CE (IGBT slope resistance)", description: "Slope of the IGBT's on-state curve, V_CE = V_CE0 + r_CE·i. Absent: 0 (constant drop).", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
-const vF0Input = quantity({ key: "vF0", label: "V_F0 (diode threshold)", description: "Antiparallel diode threshold of V_F = V_F0 + r_D·i (IGBT only; a MOSFET's channel conducts reverse current). Absent: diode loss not computed.", dimension: "voltage", displayUnit: "V", min: 0, max: 100, optional: true });
-const rDInput = quantity({ key: "rD", label: "r_D (diode slope resistance)", description: "Slope of the diode's forward curve. Absent: 0.", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
-const trInput = quantity({ key: "tr", label: "Rise time t_r", description: "Current rise (turn-on) time from the datasheet.", dimension: "time", displayUnit: "ns", min: 0, max: 1e-3, optional: true });
-const tfInput = quantity({ key: "tf", label: "Fall time t_f", description: "Current fall (turn-off) time from the datasheet.", dimension: "time", displayUnit: "ns", min: 0, max: 1e-3, optional: true });
-const eonInput = quantity({ key: "eon", label: "E_on", description: "Turn-on energy per pulse at the datasheet test point.", dimension: "energy", displayUnit: "uJ", min: 0, max: 100, optional: true });
-const eoffInput = quantity({ key: "eoff", label: "E_off", description: "Turn-off energy per pulse at the datasheet test point.", dimension: "energy", displayUnit: "uJ", min: 0, max: 100, optional: true });
-const eTestVInput = quantity({ key: "eTestV", label: "Test voltage of E_on/E_off", description: "Datasheet test voltage for the switching energies.", dimension: "voltage", displayUnit: "V", min: 0, minExclusive: true, max: 1e6, optional: true });
-const eTestIInput = quantity({ key: "eTestI", label: "Test current of E_on/E_off", description: "Datasheet test current for the switching energies.", dimension: "current", displayUnit: "A", min: 0, minExclusive: true, max: 1e6, optional: true });
-const rthJaInput = quantity({ key: "rthJa", label: "R_th junction to ambient", description: "One switch's total thermal resistance, junction to ambient: R_th(j-c) + R_th(c-s) + R_th(s-a) for its own heatsink.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 1e3 });
-const taInput = quantity({ key: "ta", label: "Ambient temperature", description: "Air temperature at the heatsink (40 °C is a common design ambient inside an enclosure).", dimension: "temperature", displayUnit: "degC", min: -100, max: 300, default: "40 degC" });
-const vRatedInput = quantity({ key: "vRated", label: "Rated blocking voltage", description: "Datasheet V_DS or V_CES rating.", dimension: "voltage", displayUnit: "V", min: 0, minExclusive: true, max: 1e6 });
-const tjMaxInput = quantity({ key: "tjMax", label: "Maximum junction temperature", description: "Optional: the datasheet's T_j(max), to warn when exceeded.", dimension: "temperature", displayUnit: "degC", min: 0, max: 400, optional: true });
+const fswInput = quantityInput({ key: "fsw", label: "Switching frequency", description: "PWM carrier frequency.", dimension: "frequency", displayUnit: "kHz", min: 0, minExclusive: true, max: 1e8 });
+const rdsOnInput = quantityInput({ key: "rdsOn", label: "R_DS(on)", description: "MOSFET on-resistance at the expected junction temperature.", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
+const vceSatInput = quantityInput({ key: "vceSat", label: "V_CE0 (IGBT threshold)", description: "IGBT on-state threshold voltage V_CE0 of the linear model V_CE = V_CE0 + r_CE·i, at the expected junction temperature. With no rCe, give V_CE(sat) here: a constant drop.", dimension: "voltage", displayUnit: "V", min: 0, max: 100, optional: true });
+const rCeInput = quantityInput({ key: "rCe", label: "r_CE (IGBT slope resistance)", description: "Slope of the IGBT's on-state curve, V_CE = V_CE0 + r_CE·i. Absent: 0 (constant drop).", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
+const vF0Input = quantityInput({ key: "vF0", label: "V_F0 (diode threshold)", description: "Antiparallel diode threshold of V_F = V_F0 + r_D·i (IGBT only; a MOSFET's channel conducts reverse current). Absent: diode loss not computed.", dimension: "voltage", displayUnit: "V", min: 0, max: 100, optional: true });
+const rDInput = quantityInput({ key: "rD", label: "r_D (diode slope resistance)", description: "Slope of the diode's forward curve. Absent: 0.", dimension: "resistance", displayUnit: "mohm", min: 0, max: 1e3, optional: true });
+const trInput = quantityInput({ key: "tr", label: "Rise time t_r", description: "Current rise (turn-on) time from the datasheet.", dimension: "time", displayUnit: "ns", min: 0, max: 1e-3, optional: true });
+const tfInput = quantityInput({ key: "tf", label: "Fall time t_f", description: "Current fall (turn-off) time from the datasheet.", dimension: "time", displayUnit: "ns", min: 0, max: 1e-3, optional: true });
+const eonInput = quantityInput({ key: "eon", label: "E_on", description: "Turn-on energy per pulse at the datasheet test point.", dimension: "energy", displayUnit: "uJ", min: 0, max: 100, optional: true });
+const eoffInput = quantityInput({ key: "eoff", label: "E_off", description: "Turn-off energy per pulse at the datasheet test point.", dimension: "energy", displayUnit: "uJ", min: 0, max: 100, optional: true });
+const eTestVInput = quantityInput({ key: "eTestV", label: "Test voltage of E_on/E_off", description: "Datasheet test voltage for the switching energies.", dimension: "voltage", displayUnit: "V", min: 0, minExclusive: true, max: 1e6, optional: true });
+const eTestIInput = quantityInput({ key: "eTestI", label: "Test current of E_on/E_off", description: "Datasheet test current for the switching energies.", dimension: "current", displayUnit: "A", min: 0, minExclusive: true, max: 1e6, optional: true });
+const rthJaInput = quantityInput({ key: "rthJa", label: "R_th junction to ambient", description: "One switch's total thermal resistance, junction to ambient: R_th(j-c) + R_th(c-s) + R_th(s-a) for its own heatsink.", dimension: "thermalResistance", displayUnit: "K/W", min: 0, max: 1e3 });
+const taInput = quantityInput({ key: "ta", label: "Ambient temperature", description: "Air temperature at the heatsink (40 °C is a common design ambient inside an enclosure).", dimension: "temperature", displayUnit: "degC", min: -100, max: 300, default: "40 degC" });
+const vRatedInput = quantityInput({ key: "vRated", label: "Rated blocking voltage", description: "Datasheet V_DS or V_CES rating.", dimension: "voltage", displayUnit: "V", min: 0, minExclusive: true, max: 1e6 });
+const tjMaxInput = quantityInput({ key: "tjMax", label: "Maximum junction temperature", description: "Optional: the datasheet's T_j(max), to warn when exceeded.", dimension: "temperature", displayUnit: "degC", min: 0, max: 400, optional: true });
 
 /** Blocking voltage kept at or below this share of the rating (common practice). */
 export const VOLTAGE_DERATING = 0.8;
 
-const SWITCH_COUNT: Record<string, number> = { "full-bridge": 4, "half-bridge": 2, "three-phase": 6 };
+/** Switch positions (transistor with its antiparallel diode) of each bridge. */
+export const SWITCH_COUNT: Record<string, number> = { "full-bridge": 4, "half-bridge": 2, "three-phase": 6 };
+
+/**
+ * Average conduction loss of a device carrying V0 + r·i in a sine-PWM leg, duty-weighted over the
+ * cycle; σ = +1 for the transistor, −1 for its antiparallel diode (Mohan, Undeland & Robbins,
+ * 3rd ed., ch. 8 averaging; integrals derived in the module comment).
+ */
+export function conductionLoss(v0: number, r: number, iPeak: number, ma: number, pf: number, sigma: 1 | -1): number {
+  return v0 * iPeak * (1 / (2 * Math.PI) + (sigma * ma * pf) / 8) + r * iPeak * iPeak * (1 / 8 + (sigma * ma * pf) / (3 * Math.PI));
+}
 
 /** Largest linear-SPWM fundamental RMS (ma = 1), load voltage or line to line. Mohan 3rd ed. ch. 8. */
 export function maxLinearOutputRms(topology: string, vdc: number): number {
@@ -233,13 +242,12 @@ export const calculator: Calculator = {
 
     // SPWM duty weighting (see the module comment); ma above 1 is overmodulation, where the linear duty no longer holds.
     const ma = Math.min(vout / maxLinear, 1);
-    const cosPhi = pf;
-    const transistorAvg = iPeak * (1 / (2 * Math.PI) + (ma * cosPhi) / 8);
-    const transistorRms2 = iPeak * iPeak * (1 / 8 + (ma * cosPhi) / (3 * Math.PI));
-    const diodeAvg = iPeak * (1 / (2 * Math.PI) - (ma * cosPhi) / 8);
-    const diodeRms2 = iPeak * iPeak * (1 / 8 - (ma * cosPhi) / (3 * Math.PI));
-    const pCond = device === "mosfet" ? rdsOn! * (transistorRms2 + diodeRms2) : vceSat! * transistorAvg + rCe * transistorRms2;
-    const pCondDiode = device === "igbt" && vF0 !== undefined ? vF0 * diodeAvg + rD * diodeRms2 : undefined;
+    // A MOSFET's channel carries the current both ways: R_DS(on) over the transistor's and the diode's share.
+    const pCond =
+      device === "mosfet"
+        ? conductionLoss(0, rdsOn!, iPeak, ma, pf, 1) + conductionLoss(0, rdsOn!, iPeak, ma, pf, -1)
+        : conductionLoss(vceSat!, rCe, iPeak, ma, pf, 1);
+    const pCondDiode = device === "igbt" && vF0 !== undefined ? conductionLoss(vF0, rD, iPeak, ma, pf, -1) : undefined;
     if (device === "igbt" && vF0 === undefined) warnings.push("vF0 not given: the antiparallel diode's conduction loss is not included in the totals.");
     if (device === "mosfet" && (rCe > 0 || vF0 !== undefined || rD > 0)) warnings.push("rCe, vF0 and rD are IGBT inputs and are ignored for a MOSFET.");
     const pSw = useEnergies
@@ -262,7 +270,7 @@ export const calculator: Calculator = {
     }
 
     warnings.push(
-      `Conduction: SPWM duty-weighted, ${device === "mosfet" ? "R_DS(on) in both directions" : "V_CE0 + r_CE·i for the transistor" + (pCondDiode === undefined ? "" : ", V_F0 + r_D·i for the diode")}, at ma = ${ma.toFixed(3)} and cos φ = ${cosPhi} (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 8 averaging; integrals derived).`,
+      `Conduction: SPWM duty-weighted, ${device === "mosfet" ? "R_DS(on) in both directions" : "V_CE0 + r_CE·i for the transistor" + (pCondDiode === undefined ? "" : ", V_F0 + r_D·i for the diode")}, at ma = ${ma.toFixed(3)} and cos φ = ${pf} (Mohan, Undeland & Robbins, Power Electronics, 3rd ed., ch. 8 averaging; integrals derived).`,
     );
     const results: Results = {
       vBlock: scalar(vBlock, "V"),

@@ -48,6 +48,7 @@ import { fieldError } from "../errors";
 import { scalar } from "../format";
 import {
   harmonicTable,
+  linesFromOrders,
   steppedCycle,
   steppedCycleFourier,
   steppedCycleMoments,
@@ -301,9 +302,7 @@ function lineAndPhasePeaks(
 
 /** The orders above 1 whose line is not negligible. */
 function listedLines(peaks: Float64Array): OrderPeak[] {
-  const lines: OrderPeak[] = [];
-  for (let h = 2; h < peaks.length; h++) if (peaks[h]! >= LIST_BELOW * peaks[1]!) lines.push({ n: h, peak: peaks[h]! });
-  return lines;
+  return linesFromOrders(peaks, (n) => peaks[n]! >= LIST_BELOW * peaks[1]!);
 }
 
 export const calculator: Calculator = {
@@ -375,7 +374,6 @@ export const calculator: Calculator = {
     const sampling = readChoice(inputs, samplingInput) as Sampling;
     const f = readQuantity(inputs, fundamentalFrequencyInput);
     const hmax = readQuantity(inputs, hmaxInput);
-    if (!Number.isInteger(mf)) throw fieldError("mf", "Frequency ratio mf must be a whole number (a synchronous carrier).");
 
     const warnings: string[] = [];
     const limit = linearLimit(reference);
