@@ -4,7 +4,6 @@
  * Router, which answers every request that is not a static file. server.js only chooses between
  * development (Vite's middleware) and production (the built files) and listens.
  */
-import "react-router";
 import { randomUUID } from "node:crypto";
 import { readdirSync } from "node:fs";
 import path from "node:path";

@@ -46,7 +46,7 @@ export function forbidden(request: Request, message: string): Response {
   return new Response(message, { status: 403, statusText: "Forbidden" });
 }
 
-export async function membershipsOf(userId: string): Promise<TeamMembership[]> {
+async function membershipsOf(userId: string): Promise<TeamMembership[]> {
   const rows = await db()
     .select({ teamId: organization.id, teamName: organization.name, teamSlug: organization.slug, role: member.role })
     .from(member)
@@ -59,13 +59,13 @@ export async function membershipsOf(userId: string): Promise<TeamMembership[]> {
 /** "Last used" is shown to the minute; refreshing it on every call would make every API read a write. */
 const LAST_USED_RESOLUTION_MS = 60_000;
 
-async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamId: string; keyId: string } | null> {
+async function fromApiKey(request: Request): Promise<{ user: SignedInUser; emailVerified: boolean; teamId: string; keyId: string } | null> {
   const header = request.headers.get("authorization");
   if (!header?.toLowerCase().startsWith("bearer ")) return null;
   const secret = header.slice(7).trim();
   if (!secret) return null;
   const [row] = await db()
-    .select({ keyId: apiKey.id, teamId: apiKey.teamId, lastUsedAt: apiKey.lastUsedAt, id: user.id, name: user.name, email: user.email })
+    .select({ keyId: apiKey.id, teamId: apiKey.teamId, lastUsedAt: apiKey.lastUsedAt, id: user.id, name: user.name, email: user.email, emailVerified: user.emailVerified })
     .from(apiKey)
     .innerJoin(user, eq(apiKey.userId, user.id))
     .where(and(eq(apiKey.secretHash, hashApiKey(secret)), isNull(apiKey.revokedAt)))
@@ -74,12 +74,14 @@ async function fromApiKey(request: Request): Promise<{ user: SignedInUser; teamI
   if (!row.lastUsedAt || Date.now() - row.lastUsedAt.getTime() > LAST_USED_RESOLUTION_MS) {
     await db().update(apiKey).set({ lastUsedAt: new Date() }).where(eq(apiKey.id, row.keyId));
   }
-  return { user: { id: row.id, name: row.name, email: row.email }, teamId: row.teamId, keyId: row.keyId };
+  return { user: { id: row.id, name: row.name, email: row.email }, emailVerified: row.emailVerified, teamId: row.teamId, keyId: row.keyId };
 }
 
 /** Who is asking, found once per request by `identify`; null when nobody is signed in. */
 export interface Identity {
   user: SignedInUser;
+  /** Whether the account has confirmed its e-mail address (joining a team needs it). */
+  emailVerified: boolean;
   via: Member["via"];
   /** The personal API key the request carried, if that is how it proved who it is. */
   apiKeyId: string | null;
@@ -108,7 +110,8 @@ async function lookUpIdentity(request: Request): Promise<Identity | null> {
   if (keyed) {
     noteSignedIn(keyed.user.id, "api-key");
     const teams = await membershipsOf(keyed.user.id);
-    return { user: keyed.user, via: "api-key", apiKeyId: keyed.keyId, teams, team: teams.find((t) => t.teamId === keyed.teamId) ?? null };
+    const team = teams.find((t) => t.teamId === keyed.teamId) ?? null;
+    return { user: keyed.user, emailVerified: keyed.emailVerified, via: "api-key", apiKeyId: keyed.keyId, teams, team };
   }
   const session = await auth().api.getSession({ headers: request.headers });
   if (!session) return null;
@@ -116,7 +119,8 @@ async function lookUpIdentity(request: Request): Promise<Identity | null> {
   noteSignedIn(id, "session");
   const teams = await membershipsOf(id);
   const team = teams.find((t) => t.teamId === session.session.activeOrganizationId) ?? teams[0] ?? null;
-  return { user: { id, name, email }, via: "session", apiKeyId: null, teams, team };
+  // better-auth reads the session's user from the database (no cookie cache), so this is current.
+  return { user: { id, name, email }, emailVerified: session.user.emailVerified, via: "session", apiKeyId: null, teams, team };
 }
 
 /** Who is asking, or null; never throws for anonymous requests. */

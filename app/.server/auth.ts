@@ -22,8 +22,8 @@ const roles = {
 };
 
 /** A session lasts two weeks and is extended by the first request a day after its last extension. */
-export const SESSION_SECONDS = 60 * 60 * 24 * 14;
-export const SESSION_REFRESH_SECONDS = 60 * 60 * 24;
+const SESSION_SECONDS = 60 * 60 * 24 * 14;
+const SESSION_REFRESH_SECONDS = 60 * 60 * 24;
 
 /**
  * better-auth's own endpoints for changing a team. The Team, invitation and new-team

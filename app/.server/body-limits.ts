@@ -1,14 +1,17 @@
 import { attachmentLimitBytes } from "./attachments";
 
 /** Sign-in, sign-up, password reset, invitations: a few short fields. */
-export const AUTH_BODY_BYTES = 16 * 1024;
+const AUTH_BODY_BYTES = 16 * 1024;
 /** The editors post a whole source (at most 200 KB of text, URL-encoded: up to 9 bytes a character). */
-export const EDITOR_BODY_BYTES = 2 * 1024 * 1024;
+const EDITOR_BODY_BYTES = 2 * 1024 * 1024;
+/** The evaluate API: a sheet's blocks as JSON. */
+const EVALUATE_BODY_BYTES = 1024 * 1024;
 /** Every other form and JSON body. */
-export const FORM_BODY_BYTES = 256 * 1024;
+const FORM_BODY_BYTES = 256 * 1024;
 
 const AUTH_PATHS = /^\/(sign-in|sign-up|sign-out|forgot-password|reset-password|invitations\/[^/]+|api\/auth\/.*)$/;
-const EDITOR_PATHS = /^\/(sheets\/[^/]+\/edit|documents\/[^/]+\/edit|sheets\/new|documents\/new|api\/v1\/evaluate|api\/v1\/calculators\/[^/]+\/evaluate)(\.data)?$/;
+const EDITOR_PATHS = /^\/(sheets\/[^/]+\/edit|documents\/[^/]+\/edit|sheets\/new|documents\/new)$/;
+const EVALUATE_PATHS = /^\/api\/v1\/(evaluate|calculators\/[^/]+\/evaluate)$/;
 const ATTACHMENT_UPLOAD = /^\/api\/v1\/sheets\/[^/]+\/attachments$/;
 
 /**
@@ -18,7 +21,10 @@ const ATTACHMENT_UPLOAD = /^\/api\/v1\/sheets\/[^/]+\/attachments$/;
  */
 export function bodyLimitFor(pathname: string): number {
   if (ATTACHMENT_UPLOAD.test(pathname)) return 2 * attachmentLimitBytes();
-  if (AUTH_PATHS.test(pathname.replace(/\.data$/, ""))) return AUTH_BODY_BYTES;
-  if (EDITOR_PATHS.test(pathname)) return EDITOR_BODY_BYTES;
+  // A page's form posts to its `.data` URL when the page is already loaded.
+  const page = pathname.replace(/\.data$/, "");
+  if (AUTH_PATHS.test(page)) return AUTH_BODY_BYTES;
+  if (EDITOR_PATHS.test(page)) return EDITOR_BODY_BYTES;
+  if (EVALUATE_PATHS.test(page)) return EVALUATE_BODY_BYTES;
   return FORM_BODY_BYTES;
 }

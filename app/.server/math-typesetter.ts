@@ -17,7 +17,7 @@ import type { SourceKind } from "~/lib/mdx/types";
 import type { StoredCapture } from "~/lib/waveform/measurement";
 
 /** A sheet's formulas (at most 20,000 characters of TeX) typeset in under 2 s on one core; this leaves room for a busy machine. */
-export const MATH_DEADLINE_MS = 5_000;
+const MATH_DEADLINE_MS = 5_000;
 const WORKER_HEAP_MB = 64;
 
 // The worker cannot import the app's modules (they are bundled into the server build), so

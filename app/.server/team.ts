@@ -119,9 +119,3 @@ export function slugify(name: string): string {
   const base = name.toLowerCase().normalize("NFKD").replace(/[^a-z0-9]+/g, "-").replace(/^-+|-+$/g, "").slice(0, 40) || "team";
   return `${base}-${crypto.randomUUID().slice(0, 6)}`;
 }
-
-/** Whether the account has confirmed its e-mail address (joining a team needs it). */
-export async function hasConfirmedEmail(userId: string): Promise<boolean> {
-  const [row] = await db().select({ verified: user.emailVerified }).from(user).where(eq(user.id, userId));
-  return row?.verified === true;
-}

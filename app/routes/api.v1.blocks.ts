@@ -2,17 +2,16 @@ import type { Route } from "./+types/api.v1.blocks";
 import { blockQuery } from "~/lib/forms/search";
 import { sheetNumberLabel } from "~/lib/sheets/numbering";
 import { requireMember } from "~/.server/access";
-import { apiError, methodNotAllowed, resultsJson } from "~/.server/api";
+import { apiError, methodNotAllowed, readQuery, resultsJson } from "~/.server/api";
 import { BlockQueryError } from "~/.server/search";
 import { BlockSearchInputError, runBlockSearch } from "~/.server/search-query";
 
 /** GET /api/v1/blocks?calculator=lc-filter&field=f0&min=1 kHz&max=3 kHz&verified=1 — blocks whose value lies in the range. */
 export async function loader({ request, context }: Route.LoaderArgs) {
   const me = await requireMember(request, context, "viewer");
-  const parsed = blockQuery.safeParse(Object.fromEntries(new URL(request.url).searchParams));
-  if (!parsed.success) return apiError(400, "The block query needs fixing.", parsed.error.issues.map((i) => ({ field: String(i.path[0] ?? "query"), message: i.message })));
+  const query = readQuery(request, blockQuery, "The block query needs fixing.");
   try {
-    const hits = await runBlockSearch(me, parsed.data);
+    const hits = await runBlockSearch(me, query);
     return resultsJson({
       blocks: hits.map((h) => ({
         sheet: sheetNumberLabel(h.sheetNumber),

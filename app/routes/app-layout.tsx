@@ -2,17 +2,16 @@ import { useEffect } from "react";
 import { Form, NavLink, Outlet, redirect, useLoaderData, useNavigate } from "react-router";
 import type { Route } from "./+types/app-layout";
 import { Wordmark } from "~/components/brand-mark";
-import { identityOf } from "~/.server/access";
+import { identityOf, requireUser } from "~/.server/access";
 import { unreadCount } from "~/.server/review";
 
 /** Every page inside the app shell is for a signed-in member: the rest go to sign in, or to start a team first. */
 export const middleware: Route.MiddlewareFunction[] = [
   async ({ request, context }, next) => {
-    const identity = await identityOf(context);
-    const url = new URL(request.url);
-    const page = url.pathname.replace(/\.data$/, "");
-    if (!identity) throw redirect(`/sign-in?next=${encodeURIComponent(page + url.search)}`);
-    if (!identity.team && page !== "/teams/new") throw redirect("/teams/new");
+    await requireUser(request, context);
+    // The framework hands middleware the page's URL, without a data request's `.data`.
+    const { team } = (await identityOf(context))!;
+    if (!team && new URL(request.url).pathname !== "/teams/new") throw redirect("/teams/new");
     return next();
   },
 ];

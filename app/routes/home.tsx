@@ -11,7 +11,7 @@ export const meta: Route.MetaFunction = () => [
   { name: "description", content: "Calc sheets with live inverter calculators, second-engineer checking, and project documents that cite exact revisions." },
 ];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   return { signedIn: (await identityOf(context)) !== null };
 }
 
