@@ -25,7 +25,6 @@ describe("reading sheets and documents in the browser", () => {
     await expect.poll(() => page.evaluate(() => document.activeElement?.id)).toBe("search-box");
 
     // Client-side navigations (data requests) to a sheet and to a document: the page is replaced, not reloaded.
-    await page.evaluate(() => ((window as unknown as { notReloaded: boolean }).notReloaded = true));
     const dataRequests: string[] = [];
     page.on("response", (response) => {
       if (new URL(response.url()).pathname.endsWith(".data")) dataRequests.push(`${response.status()} ${response.headers()["content-type"]}`);
@@ -35,6 +34,7 @@ describe("reading sheets and documents in the browser", () => {
     await page.locator('a[href="/sheets/CS-0002"]:visible').first().click();
     await page.waitForURL((url) => url.pathname === "/sheets/CS-0002");
     await expect.poll(() => page.locator("main").textContent()).toContain("CS-0002");
+    expect(await page.evaluate(() => (window as unknown as { notReloaded?: boolean }).notReloaded)).toBe(true);
     await page.goto(`${BASE_URL}/projects`);
     await page.evaluate(() => ((window as unknown as { notReloaded: boolean }).notReloaded = true));
     await page.locator('main a[href="/projects/PUMP-3K"]:visible').first().click();

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { ACCESS_MATRIX, ACTORS, entryUrl, type Actor, type Body, type Fixtures, type Outcome } from "../support/access-matrix";
 import { signUpWithTeam, Visitor } from "../support/http";
 import type { SpawnedServer } from "../support/app-server";
-import { startOwnServer } from "../support/own-server";
+import { SEEDED_SERVER_TIMEOUT_MS, startOwnServer } from "../support/own-server";
 import { appRoutes } from "../support/route-config";
 
 /**
@@ -66,7 +66,7 @@ describe("access matrix", () => {
     const rows = await db().execute<{ id: string }>(sql`select id from invitation where email = 'matrix-invitee@example.org'`);
     const attachments = await db().execute<{ id: string }>(sql`select a.id from attachment a join calc_sheet s on s.id = a.sheet_id join organization o on o.id = s.team_id where s.number = 6 and o.slug = 'larkfield-power' limit 1`);
     fixtures = { invitationId: rows.rows[0]!.id, attachmentId: attachments.rows[0]!.id };
-  }, 120_000);
+  }, SEEDED_SERVER_TIMEOUT_MS);
   afterAll(async () => {
     await server?.stop();
   });

@@ -80,7 +80,7 @@ describe("API fuzzing", () => {
     expect(apiRoutes.map((r) => r.id)).toEqual(expect.arrayContaining(["routes/api.v1.evaluate", "routes/api.v1.search", "api-not-found"]));
   });
 
-  it("knows the schema of every API route that reads a query or a JSON body", () => {
+  it("finds every route named in ROUTE_SCHEMAS, and a limit in each of their schemas", () => {
     for (const id of Object.keys(ROUTE_SCHEMAS)) expect(apiRoutes.map((r) => r.id)).toContain(id);
     for (const schemas of Object.values(ROUTE_SCHEMAS)) {
       const limited = { ...(schemas.query ? valuesPastLimits(schemas.query) : {}), ...(schemas.body ? arraysPastLimits(schemas.body) : {}) };

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { freePort, spawnServer } from "../support/app-server";
+import { startOwnServer } from "../support/own-server";
 import { pageText, teamWithRoles, Visitor } from "../support/http";
 import { serverQuery } from "../support/server-db";
 
@@ -116,8 +116,8 @@ describe("pages show the database as it is now", () => {
   });
 
   it("keeps servers in step: a comment or a stamp made through one server shows at once on another", async () => {
-    const port = String(await freePort());
-    const second = await spawnServer({ ...process.env, DATABASE_URL: process.env.TEST_SERVER_DATABASE_URL!, PORT: port, APP_URL: `http://127.0.0.1:${port}`, LOG_LEVEL: "warn" });
+    // A second server on the suite's own server database.
+    const second = await startOwnServer({ env: { DATABASE_URL: process.env.TEST_SERVER_DATABASE_URL! } });
     try {
       const { people } = await teamWithRoles("fresh-servers", ["engineer", "checker", "viewer"]);
       const label = await sheetWithRevision(people.engineer!.visitor, "DC link read on two servers");

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createApiKey, pageText, signUpWithTeam, Visitor } from "../support/http";
 import type { SpawnedServer } from "../support/app-server";
-import { startOwnServer } from "../support/own-server";
+import { SEEDED_SERVER_TIMEOUT_MS, startOwnServer } from "../support/own-server";
 import { serverQuery } from "../support/server-db";
 
 /** The headers every response must carry, whatever produced it. */
@@ -85,9 +85,7 @@ describe("rate limits (a server of this file's own, with limits on)", () => {
   let server: SpawnedServer;
   beforeAll(async () => {
     server = await startOwnServer({ seed: true, env: { RATE_LIMITS: "on", API_RATE_LIMIT: "5", API_RATE_WINDOW_SECONDS: "60" } });
-    // Seeding the demo team takes most of this, and ran past the suite's 60 s on a loaded machine: the same bound as the
-    // access matrix's seeded server. It bounds a hang; speed is for benchmarks.
-  }, 120_000);
+  }, SEEDED_SERVER_TIMEOUT_MS);
   afterAll(async () => {
     await server?.stop();
   });

@@ -1,6 +1,9 @@
 import { runNode } from "../../scripts/local.mjs";
 import { freePort, spawnServer, type SpawnedServer } from "./app-server";
 
+/** Long enough to seed the demo team and start a server on a loaded machine; it only guards against a hang. */
+export const SEEDED_SERVER_TIMEOUT_MS = 120_000;
+
 /**
  * The built server (spawnServer) on this test file's own database (integration-db.ts), with
  * the suite's settings plus `env`, seeded with the demo team when `seed` is set: for tests

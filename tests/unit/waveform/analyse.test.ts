@@ -1,6 +1,6 @@
 // Captures synthesized from the closed-form waveforms, read and analysed as an upload
 // would be, and compared with the engine's calculators and with the published values
-// the engine's own tests check (docs/sources.md, "Fourier series of bridge outputs").
+// the engine's own tests check (docs/sources.md, "Derivations the tests rely on").
 import { describe, expect, it } from "vitest";
 import { calculator as quasiSquareCalculator } from "~/lib/calc/calculators/quasi-square";
 import { calculator as sixStepCalculator } from "~/lib/calc/calculators/six-step";

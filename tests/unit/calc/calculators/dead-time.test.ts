@@ -7,7 +7,6 @@ import { refuse, run as evaluate, valueOf } from "./run-helpers";
 
 const BASE = { vdc: 600, ma: 0.9, fsw: 10e3, td: 1.5e-6, phi: 30, vT: 1.5, vD: 1.2, f: 50, hmax: 25 };
 const compute = (overrides: Partial<typeof BASE> & { tMinOn?: number } = {}) => run(calculator, { ...BASE, ...overrides });
-const value = (results: ReturnType<typeof compute>["results"], key: string) => (results[key] as { value: number }).value;
 
 /**
  * The leg written from its definition, on 2^20 points per cycle: gate from the carrier comparison; each switch turns
@@ -42,7 +41,7 @@ describe("dead time against the synthesized switched leg (fft.js, 2^20 points, m
     const p = { ...BASE, phi, ma, td };
     const { results } = compute(p);
     const sampled = sampledSpectrum(synthesizedPole(p), 2 ** 20);
-    expectClose(value(results, "v1Peak"), sampled.peaks[1]!, { rel: 5e-3 }, "fundamental");
+    expectClose(valueOf(results, "v1Peak"), sampled.peaks[1]!, { rel: 5e-3 }, "fundamental");
     const table = harmonicsOf(results);
     // Near each current zero crossing one switching period carries part of the error: O(A/mf) per harmonic.
     for (const n of [3, 5, 7]) expectClose(peakAt(table, n), sampled.peaks[n]!, { rel: 2e-2 }, `order ${n}`);
@@ -50,8 +49,8 @@ describe("dead time against the synthesized switched leg (fft.js, 2^20 points, m
 
   it("the fundamental lost grows as Vdc·td·fsw: twice the dead time, about twice the loss at φ = 0 (Mohan 3rd ed. §8-7, from memory)", () => {
     const noDrops = { vT: 0, vD: 0, phi: 0 };
-    const one = value(compute({ ...noDrops, td: 1e-6 }).results, "v1Loss");
-    const two = value(compute({ ...noDrops, td: 2e-6 }).results, "v1Loss");
+    const one = valueOf(compute({ ...noDrops, td: 1e-6 }).results, "v1Loss");
+    const two = valueOf(compute({ ...noDrops, td: 2e-6 }).results, "v1Loss");
     expectClose(two, 2 * one, { rel: 1e-12 });
     expectClose(one, (100 * (4 / Math.PI) * 600 * 1e-6 * 10e3) / 270, { rel: 1e-12 });
   });
@@ -60,8 +59,8 @@ describe("dead time against the synthesized switched leg (fft.js, 2^20 points, m
 describe("dead time: the narrowest pulse and field errors", () => {
   it("narrowest pulse (1 − ma)/(2·fsw), with a warning when dead time and minimum on-time do not fit", () => {
     const { results, warnings } = compute({ ma: 0.98, tMinOn: 0.5e-6 });
-    expectClose(value(results, "minPulse"), 0.02 / 20e3, { rel: 1e-12 });
-    expect(value(results, "pulseMargin")).toBeLessThan(0);
+    expectClose(valueOf(results, "minPulse"), 0.02 / 20e3, { rel: 1e-12 });
+    expect(valueOf(results, "pulseMargin")).toBeLessThan(0);
     expect(warnings.join(" ")).toMatch(/pulses drop/);
     expect(compute().warnings).toEqual([]);
   });

@@ -8,7 +8,6 @@ import { refuse, run as evaluate, valueOf } from "./run-helpers";
 
 const compute = (wave: EliminationWave, m: number, eliminate: number[], pick = 1, vdc = 48, hmax = 99) =>
   run(calculator, { vdc, wave, m, eliminate, pick, f: 50, hmax });
-const value = (results: ReturnType<typeof compute>["results"], key: string) => (results[key] as { value: number }).value;
 const anglesOf = (results: ReturnType<typeof compute>["results"]) =>
   [1, 2, 3, 4, 5, 6].map((i) => results[`alpha${i}`] as { value: number } | undefined).filter((r) => r !== undefined).map((r) => r.value);
 
@@ -39,16 +38,16 @@ describe("harmonic elimination: the two-step staircase without its 3rd, in close
     const expected = [Math.acos((s + root) / 2), Math.acos((s - root) / 2)].map((a) => (a * 180) / Math.PI);
     const { results } = compute("stepped", m, [3]);
     expect(results.solved).toBe(true);
-    expect(value(results, "solutionCount")).toBe(1);
+    expect(valueOf(results, "solutionCount")).toBe(1);
     anglesOf(results).forEach((alpha, i) => expectClose(alpha, expected[i]!, { abs: 1e-9 }, `α${i + 1}`));
   });
 
   it.each([0.3, 0.42, 0.9, 0.95])("m = %s is outside 0.433 … 0.866: says plainly there is none and how close it came", (m) => {
     const { results, warnings } = compute("stepped", m, [3]);
     expect(results.solved).toBe(false);
-    expect(value(results, "solutionCount")).toBe(0);
+    expect(valueOf(results, "solutionCount")).toBe(0);
     expect(warnings.join(" ")).toMatch(/No set of 2 angles gives m = .* removes orders 3/);
-    expect(value(results, "residual")).toBeGreaterThan(0.01);
+    expect(valueOf(results, "residual")).toBeGreaterThan(0.01);
     expectAllFinite(results);
   });
 });
@@ -65,7 +64,7 @@ describe("harmonic elimination against an FFT of the synthesized wave (fft.js, 2
     const vdc = 48;
     const first = compute(wave, m, eliminate);
     expect(first.results.solved).toBe(true);
-    const count = value(first.results, "solutionCount");
+    const count = valueOf(first.results, "solutionCount");
     expect(count).toBeGreaterThanOrEqual(1);
     const square = (4 * vdc) / Math.PI;
     const wanted = m * square * (wave === "stepped" ? eliminate.length + 1 : 1);
@@ -81,8 +80,8 @@ describe("harmonic elimination against an FFT of the synthesized wave (fft.js, 2
       for (const n of eliminate) expect(sampled.peaks[n]!, `order ${n}`).toBeLessThan(tolerance);
       const table = harmonicsOf(results);
       for (let n = 1; n <= 199; n += 2) expectClose(peakAt(table, n), sampled.peaks[n]!, { abs: tolerance }, `order ${n}`);
-      expectClose(value(results, "vrms"), sampled.rms, { rel: 5e-3 }, "RMS");
-      const thd = value(results, "thd");
+      expectClose(valueOf(results, "vrms"), sampled.rms, { rel: 5e-3 }, "RMS");
+      const thd = valueOf(results, "thd");
       expect(thd, "numbered by THD").toBeGreaterThanOrEqual(previousThd - 1e-9);
       previousThd = thd;
     }
@@ -96,8 +95,8 @@ describe("harmonic elimination against an FFT of the synthesized wave (fft.js, 2
 
   it("a two-level wave's RMS is Vdc, so its THD is √((Vdc/V1,rms)² − 1) whatever the angles (derived)", () => {
     const { results } = compute("two-level", 0.8, [5, 7], 1, 100);
-    expectClose(value(results, "vrms"), 100, { rel: 1e-12 });
-    expectClose(value(results, "thd"), 100 * Math.sqrt((100 / value(results, "v1Rms")) ** 2 - 1), { rel: 1e-9 });
+    expectClose(valueOf(results, "vrms"), 100, { rel: 1e-12 });
+    expectClose(valueOf(results, "thd"), 100 * Math.sqrt((100 / valueOf(results, "v1Rms")) ** 2 - 1), { rel: 1e-9 });
   });
 });
 

@@ -9,7 +9,6 @@ import { refuse, run as evaluate, valueOf } from "./run-helpers";
 type Scheme = "bipolar" | "unipolar";
 const compute = (inputs: { vdc: number; l: number; fsw: number; ma: number; scheme: Scheme; bridge?: string; f?: number; rLoad?: number }) =>
   run(calculator, { bridge: "full", f: 50, ...inputs });
-const value = (results: ReturnType<typeof compute>["results"], key: string) => (results[key] as { value: number }).value;
 
 /**
  * The bridge voltage as cell averages over one cycle, written from the comparator definition (carrier valley at 90°):
@@ -71,21 +70,21 @@ describe("inductor ripple against the integrated switched voltage (2^20 cells pe
     const mf = 512;
     const { results } = compute({ vdc, l, fsw: mf * f, ma, scheme, f });
     const reference = integratedRipple(scheme, ma, mf, vdc, l, f);
-    expectClose(value(results, "ripplePpMax"), reference.largest, { rel: 5e-3 }, "largest");
-    expectClose(value(results, "ripplePpAtPeak"), reference.atPeak, { rel: 5e-3 }, "at 90°");
+    expectClose(valueOf(results, "ripplePpMax"), reference.largest, { rel: 5e-3 }, "largest");
+    expectClose(valueOf(results, "ripplePpAtPeak"), reference.atPeak, { rel: 5e-3 }, "at 90°");
     // The unipolar maximum is flat near asin(1/(2ma)): the located angle agrees to a few carrier periods.
-    expectClose(value(results, "ripplePpMaxAngle"), reference.largestAt, { abs: scheme === "bipolar" ? 1 : 6 }, "angle");
+    expectClose(valueOf(results, "ripplePpMaxAngle"), reference.largestAt, { abs: scheme === "bipolar" ? 1 : 6 }, "angle");
   });
 
   it("bipolar ripple is largest at the zero crossing, V/(2L·fsw); unipolar at ma·sin θ = ½, Vdc/(8L·fsw) (derived from v = L di/dt)", () => {
     const bipolar = compute({ vdc: 400, l: 1e-3, fsw: 20e3, ma: 0.9, scheme: "bipolar" }).results;
-    expectClose(value(bipolar, "ripplePpMax"), 400 / (2 * 1e-3 * 20e3), { rel: 1e-12 });
-    expect(value(bipolar, "ripplePpMaxAngle")).toBe(0);
+    expectClose(valueOf(bipolar, "ripplePpMax"), 400 / (2 * 1e-3 * 20e3), { rel: 1e-12 });
+    expect(valueOf(bipolar, "ripplePpMaxAngle")).toBe(0);
     const unipolar = compute({ vdc: 400, l: 1e-3, fsw: 20e3, ma: 0.9, scheme: "unipolar" }).results;
-    expectClose(value(unipolar, "ripplePpMax"), 400 / (8 * 1e-3 * 20e3), { rel: 1e-12 });
-    expectClose(value(unipolar, "ripplePpMaxAngle"), (Math.asin(1 / 1.8) * 180) / Math.PI, { rel: 1e-12 });
+    expectClose(valueOf(unipolar, "ripplePpMax"), 400 / (8 * 1e-3 * 20e3), { rel: 1e-12 });
+    expectClose(valueOf(unipolar, "ripplePpMaxAngle"), (Math.asin(1 / 1.8) * 180) / Math.PI, { rel: 1e-12 });
     const half = compute({ vdc: 400, l: 1e-3, fsw: 20e3, ma: 0.9, scheme: "bipolar", bridge: "half" }).results;
-    expectClose(value(half, "ripplePpMax"), value(bipolar, "ripplePpMax") / 2, { rel: 1e-12 });
+    expectClose(valueOf(half, "ripplePpMax"), valueOf(bipolar, "ripplePpMax") / 2, { rel: 1e-12 });
   });
 });
 
@@ -126,9 +125,9 @@ describe("R-L load current against the circuit integrated through the switched v
     const f = 50;
     const { results } = compute({ vdc, l, fsw: mf * f, ma, scheme, f, rLoad: r });
     const reference = integratedCurrent(scheme, ma, mf, vdc, l, r, f);
-    expectClose(value(results, "i1Rms"), reference.i1Rms, { rel: 5e-3 }, "fundamental");
-    expectClose(value(results, "irms"), reference.irms, { rel: 5e-3 }, "RMS");
-    expectClose(value(results, "thdCurrent"), reference.thd, { rel: 5e-3 }, "THD");
+    expectClose(valueOf(results, "i1Rms"), reference.i1Rms, { rel: 5e-3 }, "fundamental");
+    expectClose(valueOf(results, "irms"), reference.irms, { rel: 5e-3 }, "RMS");
+    expectClose(valueOf(results, "thdCurrent"), reference.thd, { rel: 5e-3 }, "THD");
   });
 });
 

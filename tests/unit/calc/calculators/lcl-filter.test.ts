@@ -7,7 +7,6 @@ import { refuse, run as evaluate, valueOf } from "./run-helpers";
 
 const BASE = { l1: 1.8e-3, l2: 0.6e-3, c: 10e-6, rd: 2, fsw: 10e3, f: 50, vGrid: 230, phases: "3" };
 const compute = (overrides: Record<string, number | string> = {}) => run(calculator, { ...BASE, ...overrides });
-const value = (results: ReturnType<typeof compute>["results"], key: string) => (results[key] as { value: number }).value;
 
 /**
  * The LCL circuit driven by v_i = sin(2πft) with the grid shorted, integrated with classical RK4 (40 steps per period)
@@ -56,7 +55,7 @@ describe("LCL filter against the integrated circuit (RK4)", () => {
   ])("at %s Hz with R_d = %s Ω: |i2/i1| and |i2/v_i| within 0.5 %", (frequency, rd) => {
     const { results } = compute({ rd, fsw: frequency });
     const reference = integratedAmplitudes(BASE.l1, BASE.l2, BASE.c, rd, frequency);
-    expectClose(value(results, "ripplePassFsw") / 100, reference.i2 / reference.i1, { rel: 5e-3 }, "i2/i1");
+    expectClose(valueOf(results, "ripplePassFsw") / 100, reference.i2 / reference.i1, { rel: 5e-3 }, "i2/i1");
     const bode = results.bode as BodePoint[];
     const atFsw = bode.find((p) => Math.abs(p.f / (10 * frequency) - 1) < 1e-9) ?? bode[bode.length - 1]!;
     expect(atFsw.f).toBeCloseTo(10 * frequency, 6);
@@ -70,20 +69,20 @@ describe("LCL filter against the integrated circuit (RK4)", () => {
 describe("LCL filter: resonance and design rules", () => {
   it("resonance √((L1 + L2)/(L1·L2·C)): 2250.8 Hz for 1 mH, 1 mH, 10 µF (Liserre, Blaabjerg & Hansen 2005 — formula; value derived)", () => {
     const { results } = compute({ l1: 1e-3, l2: 1e-3, c: 10e-6, rd: 0.05 });
-    expectClose(value(results, "fRes"), Math.sqrt(2e8) / (2 * Math.PI), { rel: 1e-12 });
-    expectClose(value(results, "fRes"), 2250.79, { abs: 0.01 });
+    expectClose(valueOf(results, "fRes"), Math.sqrt(2e8) / (2 * Math.PI), { rel: 1e-12 });
+    expectClose(valueOf(results, "fRes"), 2250.79, { abs: 0.01 });
     const bode = results.bode as BodePoint[];
     // Below the resonance the inductive response 1/(ω(L1 + L2)) is higher still: look above 1 kHz.
     const peak = bode.filter((p) => p.f > 1000).reduce((p, q) => (q.gainDb > p.gainDb ? q : p));
     // 241 log-spaced points over five decades: one step is 4.9 %.
-    expectClose(peak.f, value(results, "fRes"), { rel: 0.05 }, "Bode peak");
+    expectClose(peak.f, valueOf(results, "fRes"), { rel: 0.05 }, "Bode peak");
   });
 
   it("the suggested resistor is a third of the capacitor's impedance at resonance, and damps the peak to about 11 dB", () => {
     const { results } = compute();
-    const wRes = 2 * Math.PI * value(results, "fRes");
-    expectClose(value(results, "rdSuggested"), 1 / (3 * wRes * BASE.c), { rel: 1e-12 });
-    expect(value(results, "peakDb")).toBeLessThan(12);
+    const wRes = 2 * Math.PI * valueOf(results, "fRes");
+    expectClose(valueOf(results, "rdSuggested"), 1 / (3 * wRes * BASE.c), { rel: 1e-12 });
+    expect(valueOf(results, "peakDb")).toBeLessThan(12);
     const undamped = compute({ rd: 0 });
     expect(undamped.results.peakDb).toBeUndefined();
     expect(undamped.warnings.join(" ")).toMatch(/barely damped/);
@@ -92,11 +91,11 @@ describe("LCL filter: resonance and design rules", () => {
   it("reactive power m·V²·ωC and damping loss m·(I_C1² + I_Csw²)·R_d (derived)", () => {
     const { results } = compute({ pRated: 15e3, iRipple: 2 });
     const w1 = 2 * Math.PI * 50;
-    expectClose(value(results, "qCap"), 3 * 230 * 230 * w1 * 10e-6, { rel: 1e-12 });
-    expectClose(value(results, "qCapShare"), (100 * 3 * 230 * 230 * w1 * 10e-6) / 15e3, { rel: 1e-12 });
+    expectClose(valueOf(results, "qCap"), 3 * 230 * 230 * w1 * 10e-6, { rel: 1e-12 });
+    expectClose(valueOf(results, "qCapShare"), (100 * 3 * 230 * 230 * w1 * 10e-6) / 15e3, { rel: 1e-12 });
     const w = 2 * Math.PI * 10e3;
     const share = Math.abs(w * 0.6e-3) / Math.hypot(2, w * 0.6e-3 - 1 / (w * 10e-6));
-    expectClose(value(results, "pDamping"), 3 * ((230 * w1 * 10e-6) ** 2 + (2 * share) ** 2) * 2, { rel: 1e-12 });
+    expectClose(valueOf(results, "pDamping"), 3 * ((230 * w1 * 10e-6) ** 2 + (2 * share) ** 2) * 2, { rel: 1e-12 });
   });
 
   it("flags a resonance above fsw/2, near the control's f_s/6, and a capacitor over 5 % of the rating (common practice)", () => {

@@ -35,7 +35,6 @@ const IGBT = {
 };
 type Inputs = typeof IGBT;
 const compute = (overrides: Partial<Record<keyof Inputs, number | string>> = {}) => run(calculator, { ...IGBT, ...overrides });
-const value = (results: ReturnType<typeof compute>["results"], key: string) => (results[key] as { value: number }).value;
 
 /**
  * One leg simulated over an output cycle on a fine grid: the upper transistor's gate from the carrier comparison,
@@ -83,25 +82,25 @@ describe("losses against a simulated switched leg (2^20 points per cycle, mf 199
     const inputs = { ...IGBT, pf, ma };
     const reference = simulatedLeg(inputs, mf, inputs.rce, inputs.vce0);
     const { results } = compute({ pf, ma });
-    expectClose(value(results, "pCondSwitch"), reference.conductionT, { rel: 5e-3 }, "transistor conduction");
-    expectClose(value(results, "pCondDiode"), reference.conductionD, { rel: 5e-3 }, "diode conduction");
-    expectClose(value(results, "pSwSwitch"), reference.switching, { rel: 5e-3 }, "switching");
-    expectClose(value(results, "pRecDiode"), reference.recovery, { rel: 5e-3 }, "recovery");
+    expectClose(valueOf(results, "pCondSwitch"), reference.conductionT, { rel: 5e-3 }, "transistor conduction");
+    expectClose(valueOf(results, "pCondDiode"), reference.conductionD, { rel: 5e-3 }, "diode conduction");
+    expectClose(valueOf(results, "pSwSwitch"), reference.switching, { rel: 5e-3 }, "switching");
+    expectClose(valueOf(results, "pRecDiode"), reference.recovery, { rel: 5e-3 }, "recovery");
   });
 });
 
 describe("junction temperature through the thermal chain", () => {
   it("IGBT: the chain adds up, six positions on one heatsink", () => {
     const { results } = compute();
-    const position = value(results, "pPosition");
+    const position = valueOf(results, "pPosition");
     const heatsink = 40 + 6 * position * 0.08;
-    expectClose(value(results, "tHeatsink"), heatsink, { rel: 1e-12 });
-    expectClose(value(results, "tjSwitch"), heatsink + position * 0.05 + (value(results, "pCondSwitch") + value(results, "pSwSwitch")) * 0.25, { rel: 1e-12 });
-    expectClose(value(results, "tjMargin"), 150 - Math.max(value(results, "tjSwitch"), value(results, "tjDiode")), { rel: 1e-12 });
+    expectClose(valueOf(results, "tHeatsink"), heatsink, { rel: 1e-12 });
+    expectClose(valueOf(results, "tjSwitch"), heatsink + position * 0.05 + (valueOf(results, "pCondSwitch") + valueOf(results, "pSwSwitch")) * 0.25, { rel: 1e-12 });
+    expectClose(valueOf(results, "tjMargin"), 150 - Math.max(valueOf(results, "tjSwitch"), valueOf(results, "tjDiode")), { rel: 1e-12 });
     expect(results.runaway).toBe(false);
-    expectClose(value(results, "pTotal"), 6 * position, { rel: 1e-12 });
+    expectClose(valueOf(results, "pTotal"), 6 * position, { rel: 1e-12 });
     // Three phases of (ma·Vdc/2)·Î/2·cos φ.
-    expectClose(value(results, "pOut"), 3 * ((0.9 * 600) / 2) * 35 * 0.85, { rel: 1e-12 });
+    expectClose(valueOf(results, "pOut"), 3 * ((0.9 * 600) / 2) * 35 * 0.85, { rel: 1e-12 });
   });
 
   it("MOSFET: the iterated fixed point equals the closed form of the linear R_DS(on) model (derived)", () => {
@@ -110,13 +109,13 @@ describe("junction temperature through the thermal chain", () => {
     const alpha = (0.032 / 0.02 - 1) / (150 - 25);
     // P_T(T) = c·R(T) + P_sw with c = Î²(1/8 + ma·cos φ/(3π)); T_j = a + b·P_T, solved for T_j.
     const c = 30 * 30 * (1 / 8 + (0.9 * 0.85) / (3 * Math.PI));
-    const pSw = value(results, "pSwSwitch");
-    const pDiode = value(results, "pCondDiode") + value(results, "pRecDiode");
+    const pSw = valueOf(results, "pSwSwitch");
+    const pDiode = valueOf(results, "pCondDiode") + valueOf(results, "pRecDiode");
     const b = 4 * 0.08 + 0.05 + 0.25;
     const a = 40 + pDiode * (4 * 0.08 + 0.05);
     const tj = (a + b * (c * 0.02 * (1 - 25 * alpha) + pSw)) / (1 - b * c * 0.02 * alpha);
-    expectClose(value(results, "tjSwitch"), tj, { rel: 1e-9 });
-    expectClose(value(results, "pCondSwitch"), c * 0.02 * (1 + alpha * (tj - 25)), { rel: 1e-9 });
+    expectClose(valueOf(results, "tjSwitch"), tj, { rel: 1e-9 });
+    expectClose(valueOf(results, "pCondSwitch"), c * 0.02 * (1 + alpha * (tj - 25)), { rel: 1e-9 });
   });
 
   it("MOSFET on a heatsink too small for its current: says thermal runaway and gives no temperature", () => {
